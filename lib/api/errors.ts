@@ -1,0 +1,87 @@
+import { z } from "zod";
+
+/** Every problem the API can answer with: code → HTTP status and a stable title (RFC 9457 §3.1). */
+export const problemTypes = {
+  "bad-request": { status: 400, title: "The request could not be read", help: "The body is not valid JSON, or a header is malformed. Fix the syntax and send it again." },
+  "unauthenticated": { status: 401, title: "A valid API key is required", help: "Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired." },
+  "quota-exhausted": { status: 402, title: "The monthly quota is used up", help: "The organisation's plan has no compute units left this month." },
+  "forbidden": { status: 403, title: "The key may not do this", help: "The key lacks the scope this operation needs. Create a key with that scope." },
+  "not-found": { status: 404, title: "No such resource", help: "The path or the resource does not exist, or it belongs to another organisation." },
+  "method-not-allowed": { status: 405, title: "Method not allowed on this path", help: "The `Allow` response header lists the methods this path accepts." },
+  "conflict": { status: 409, title: "The request conflicts with one in progress", help: "A request with the same Idempotency-Key is still running. Retry after it finishes." },
+  "payload-too-large": { status: 413, title: "The request body is too large", help: "Bodies are limited in size; split the work into several requests." },
+  "unsupported-media-type": { status: 415, title: "The body must be JSON", help: "Send `Content-Type: application/json`." },
+  "validation-failed": { status: 422, title: "The request has invalid fields", help: "`errors` lists each invalid field as a JSON pointer with a message." },
+  "idempotency-key-reused": { status: 422, title: "Idempotency-Key reused with another body", help: "An Idempotency-Key belongs to one request body. Use a new key for a new request." },
+  "rate-limited": { status: 429, title: "Too many requests", help: "Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window." },
+  "internal": { status: 500, title: "Something went wrong on our side", help: "The failure was logged with the request id. Retrying may help; if it does not, report the request id." },
+} as const;
+
+export type ProblemCode = keyof typeof problemTypes;
+
+export interface FieldError {
+  /** JSON pointer (RFC 6901) into the request body, or a query parameter as `?name`. */
+  pointer: string;
+  message: string;
+}
+
+/** The one error type of the API layer: raised anywhere, rendered once by `problemResponse`. */
+export class ApiError extends Error {
+  constructor(
+    readonly code: ProblemCode,
+    readonly detail: string,
+    readonly extra: { errors?: FieldError[]; headers?: Record<string, string> } = {},
+  ) {
+    super(detail);
+    this.name = "ApiError";
+  }
+  get status(): number {
+    return problemTypes[this.code].status;
+  }
+}
+
+export const problemTypeUri = (code: ProblemCode) => `/problems/${code}`;
+
+/** JSON pointer for a path of keys (RFC 6901 escaping of `~` and `/`). */
+export function toPointer(path: readonly PropertyKey[]): string {
+  return path.map((p) => "/" + String(p).replace(/~/g, "~0").replace(/\//g, "~1")).join("");
+}
+
+/** zod issues → field errors with JSON pointers. */
+export function fieldErrorsFromZod(error: z.ZodError, prefix = ""): FieldError[] {
+  return error.issues.map((issue) => ({
+    pointer: prefix + toPointer(issue.path),
+    message: issue.message,
+  }));
+}
+
+export const problemSchema = z
+  .object({
+    type: z.string().meta({ example: "/problems/validation-failed" }),
+    title: z.string(),
+    status: z.number().int(),
+    detail: z.string(),
+    instance: z.string().meta({ description: "The request id of the failed request." }),
+    errors: z.array(z.object({ pointer: z.string(), message: z.string() })).optional(),
+  })
+  .meta({ id: "Problem", description: "RFC 9457 problem details." });
+
+export type Problem = z.infer<typeof problemSchema>;
+
+/** Render an ApiError (or anything else, as a 500 that reveals nothing) as application/problem+json. */
+export function problemResponse(err: unknown, requestId: string): Response {
+  const e = err instanceof ApiError ? err : new ApiError("internal", "An unexpected error occurred. Quote the request id when reporting it.");
+  if (!(err instanceof ApiError)) console.error(`[${requestId}]`, err);
+  const body: Problem = {
+    type: problemTypeUri(e.code),
+    title: problemTypes[e.code].title,
+    status: e.status,
+    detail: e.detail,
+    instance: requestId,
+    ...(e.extra.errors ? { errors: e.extra.errors } : {}),
+  };
+  return new Response(JSON.stringify(body), {
+    status: e.status,
+    headers: { "content-type": "application/problem+json", "x-request-id": requestId, ...e.extra.headers },
+  });
+}
