@@ -1,0 +1,3 @@
+import { unknownRoute } from "@/lib/api/endpoint";
+
+export { unknownRoute as GET, unknownRoute as POST, unknownRoute as PUT, unknownRoute as PATCH, unknownRoute as DELETE };

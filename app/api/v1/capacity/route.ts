@@ -1,0 +1,4 @@
+import { routes } from "@/lib/api/endpoint";
+import { capacity } from "@/lib/api/endpoints/capacity";
+
+export const { GET, POST, PUT, PATCH, DELETE } = routes(capacity);

@@ -1,0 +1,4 @@
+import { routes } from "@/lib/api/endpoint";
+import { distance } from "@/lib/api/endpoints/distance";
+
+export const { GET, POST, PUT, PATCH, DELETE } = routes(distance);

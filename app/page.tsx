@@ -1,0 +1,207 @@
+import Link from "next/link";
+import { Caution } from "@/components/caution";
+import { CodeBlock } from "@/components/code-block";
+
+const outcomes = [
+  {
+    title: "Codecs proven bit-exact",
+    body: "Upload the vectors your device produced. The reference decodes every one and reports each position where firmware and reference disagree, so a regression fails the build that caused it.",
+    endpoint: "POST /conformance",
+  },
+  {
+    title: "BER targets shown, with a confidence",
+    body: "State the claim — say, BER below 1e-5 for a (7,4) Hamming decoder on a BSC with p = 1e-3 — and get back supported, refuted or inconclusive, with the interval and the confidence level behind it.",
+    endpoint: "POST /claims/verify",
+  },
+  {
+    title: "Margin to capacity",
+    body: "Capacity of BSC, BEC and AWGN channels, the Shannon limit on Eb/N0 for your code rate, and how many dB your design leaves on the table.",
+    endpoint: "POST /capacity",
+  },
+  {
+    title: "Test length, planned up front",
+    body: "How many bits — and how long at your line rate — it takes to show a BER target at a chosen confidence, with zero or more errors allowed.",
+    endpoint: "POST /tests/plan",
+  },
+] as const;
+
+const endpoints = [
+  ["POST", "/codes/analyze", "Parameters, minimum distance, weight distribution and the classic bounds of a code"],
+  ["POST", "/encode", "Message bits to codeword, for every supported code family"],
+  ["POST", "/decode", "Hard bits or soft LLRs to message, with corrected positions and syndrome"],
+  ["POST", "/distance", "Hamming distance of two words; minimum distance of a codebook"],
+  ["POST", "/channels/bsc", "Flip probabilities, block error and undetected error on a BSC"],
+  ["POST", "/capacity", "Channel capacity, Shannon limit on Eb/N0, gap to capacity"],
+  ["POST", "/links/ber", "Uncoded BER at an Eb/N0, required Eb/N0 for a BER, coding gain"],
+  ["POST", "/tests/plan", "Bits and test time needed to demonstrate a BER"],
+  ["POST", "/claims/verify", "Verdict on an error-rate claim, with interval and confidence"],
+  ["POST", "/simulations", "Seeded Monte Carlo BER/FER sweeps, run asynchronously"],
+  ["POST", "/conformance", "Device test vectors checked against the reference"],
+] as const;
+
+export default function Home() {
+  return (
+    <>
+      {/* ---- Opening ---- */}
+      <section aria-labelledby="intro-heading" className="pa-grid border-b border-rule">
+        <div className="mx-auto max-w-6xl px-5 pt-14 pb-16 sm:px-8 sm:pt-20 sm:pb-20">
+          <p className="font-mono text-xs font-medium tracking-wide text-accent uppercase">
+            REST API · versioned under /api/v1
+          </p>
+          <h1
+            id="intro-heading"
+            className="mt-4 max-w-3xl text-[2.125rem] leading-[1.15] font-semibold tracking-tight text-balance sm:text-5xl"
+          >
+            Channel-coding math, callable from your build.
+          </h1>
+          <p className="mt-6 max-w-2xl text-lg text-ink-2">
+            Paritas is a hosted API for the arithmetic of error-correcting codes. Firmware, DSP and
+            link engineers call it from CI to test an error-rate claim and get a verdict with a
+            stated confidence, to hold their encoders and decoders against a bit-exact reference,
+            and to compute error probabilities, bounds, channel capacity and the distance to the
+            Shannon limit — without keeping a private pile of scripts in sync.
+          </p>
+          <div className="mt-8 flex flex-col gap-3 sm:flex-row sm:items-center">
+            <a
+              href="/docs"
+              className="inline-flex items-center justify-center rounded-md bg-accent px-5 py-2.5 font-medium text-accent-ink no-underline shadow-sm hover:brightness-110"
+            >
+              Open the API reference
+            </a>
+            <a
+              href="/console"
+              className="inline-flex items-center justify-center gap-2 rounded-md border border-rule bg-surface px-5 py-2.5 font-medium text-ink no-underline hover:bg-sunken"
+            >
+              Console
+              <span className="text-sm font-normal text-ink-2">— not built yet</span>
+            </a>
+          </div>
+        </div>
+      </section>
+
+      {/* ---- Outcomes ---- */}
+      <section aria-labelledby="outcomes-heading" className="mx-auto max-w-6xl px-5 pt-16 sm:px-8">
+        <h2 id="outcomes-heading" className="text-2xl font-semibold tracking-tight">
+          What a build can settle
+        </h2>
+        <p className="mt-2 max-w-2xl text-ink-2">
+          Each check is one HTTP call, so it runs on every commit rather than once before a
+          release. Anything random is seeded, and the seed comes back in the response: the same seed
+          gives the same numbers on every machine.
+        </p>
+        <ul className="mt-8 grid gap-4 sm:grid-cols-2">
+          {outcomes.map((o) => (
+            <li key={o.title} className="flex flex-col rounded-lg border border-rule bg-surface p-5">
+              <h3 className="flex items-baseline gap-2 text-lg font-semibold">
+                <span aria-hidden="true" className="inline-block h-2.5 w-2.5 shrink-0 rounded-sm bg-brass" />
+                {o.title}
+              </h3>
+              <p className="mt-2 flex-1 text-ink-2">{o.body}</p>
+              <p className="mt-4">
+                <code className="pa-code text-xs">{o.endpoint}</code>
+              </p>
+            </li>
+          ))}
+        </ul>
+      </section>
+
+      {/* ---- First request ---- */}
+      <section
+        aria-labelledby="first-request-heading"
+        className="mx-auto mt-16 grid max-w-6xl gap-8 px-5 sm:px-8 lg:grid-cols-[minmax(0,5fr)_minmax(0,7fr)] lg:items-start"
+      >
+        <div>
+          <h2 id="first-request-heading" className="text-2xl font-semibold tracking-tight">
+            A first request
+          </h2>
+          <p className="mt-3 text-ink-2">
+            Ask for the capacity of a binary symmetric channel that flips 11 % of its bits. The
+            answer is close to half a bit per channel use, since 1 − H₂(0.11) ≈ 0.50.
+          </p>
+          <p className="mt-3 text-ink-2">
+            Replace <code className="pa-code">&lt;key&gt;</code> with one of your API keys and{" "}
+            <code className="pa-code">$PARITAS_URL</code> with the address of your Paritas host.
+            Requests and responses are JSON. A failed call returns RFC 9457 problem details, and
+            the <code className="pa-code">type</code> of each one links to a{" "}
+            <Link href="/problems">page that explains it</Link>.
+          </p>
+        </div>
+        <CodeBlock label="shell">
+          <span className="text-code-dim"># capacity of a BSC with crossover probability 0.11</span>
+          {"\n"}
+          curl -sS -X POST <span className="text-code-str">&quot;$PARITAS_URL/api/v1/capacity&quot;</span> \{"\n"}
+          {"  "}-H <span className="text-code-str">&quot;Authorization: Bearer &lt;key&gt;&quot;</span> \{"\n"}
+          {"  "}-H <span className="text-code-str">&quot;Content-Type: application/json&quot;</span> \{"\n"}
+          {"  "}-d <span className="text-code-str">&apos;{"{"}</span>
+          <span className="text-code-key">&quot;channel&quot;</span>
+          <span className="text-code-str">:&quot;bsc&quot;,</span>
+          <span className="text-code-key">&quot;p&quot;</span>
+          <span className="text-code-str">:0.11{"}"}&apos;</span>
+        </CodeBlock>
+      </section>
+
+      {/* ---- Endpoints ---- */}
+      <section aria-labelledby="endpoints-heading" className="mx-auto mt-16 max-w-6xl px-5 sm:px-8">
+        <div className="flex flex-wrap items-baseline justify-between gap-x-6 gap-y-2">
+          <h2 id="endpoints-heading" className="text-2xl font-semibold tracking-tight">
+            The endpoints, in one line each
+          </h2>
+          <a href="/docs" className="text-sm font-medium">
+            Every field and example in the API reference →
+          </a>
+        </div>
+        <div className="mt-6 overflow-hidden rounded-lg border border-rule bg-surface">
+          <table className="w-full border-collapse text-left text-sm">
+            <caption className="sr-only">Paritas API endpoints under /api/v1</caption>
+            <thead className="bg-sunken text-ink-2">
+              <tr>
+                <th scope="col" className="px-4 py-2.5 font-medium">
+                  Endpoint
+                </th>
+                <th scope="col" className="px-4 py-2.5 font-medium">
+                  Does
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {endpoints.map(([method, path, does]) => (
+                <tr key={path} className="border-t border-rule align-top">
+                  <td className="px-4 py-2.5 font-mono text-[0.8125rem] whitespace-nowrap">
+                    <span className="text-ink-2">{method}</span> {path}
+                  </td>
+                  <td className="px-4 py-2.5 text-ink-2">{does}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <p className="mt-3 text-sm text-ink-2">
+          Code families: repetition, single parity check, Hamming and extended Hamming, Golay,
+          any binary linear code from its matrices, CRC with the full parameter model, binary BCH,
+          Reed–Solomon, convolutional with Viterbi, LDPC and polar.
+        </p>
+      </section>
+
+      {/* ---- Console ---- */}
+      <section aria-labelledby="console-heading" className="mx-auto mt-16 max-w-6xl px-5 sm:px-8">
+        <div className="rounded-lg border border-dashed border-rule p-6 sm:p-8">
+          <h2 id="console-heading" className="text-2xl font-semibold tracking-tight">
+            The console is still on the bench
+          </h2>
+          <p className="mt-3 max-w-3xl text-ink-2">
+            A web console is planned: a form for every endpoint that shows the request as curl,
+            API keys you can create, rotate and revoke, members and roles, and usage by key and
+            day. None of it is built yet, and <code className="pa-code">/console</code> has
+            nothing to show until it is. Meanwhile the <a href="/docs">API reference</a> can send
+            live requests from the browser.
+          </p>
+        </div>
+      </section>
+
+      {/* ---- Caution ---- */}
+      <section className="mx-auto mt-10 max-w-6xl px-5 sm:px-8">
+        <Caution />
+      </section>
+    </>
+  );
+}

@@ -1,0 +1,30 @@
+import type { Db } from "@/db";
+import type { ApiKeyUpdate, NewApiKey } from "@/db/schema";
+
+export const insertApiKey = (db: Db, key: NewApiKey) =>
+  db.insertInto("api_keys").values(key).returningAll().executeTakeFirstOrThrow();
+
+/** The key with this hash, and its org's slug and plan. */
+export const findApiKeyByHash = (db: Db, hash: string) =>
+  db
+    .selectFrom("api_keys")
+    .innerJoin("orgs", "orgs.id", "api_keys.org_id")
+    .selectAll("api_keys")
+    .select(["orgs.slug as org_slug", "orgs.plan as org_plan"])
+    .where("api_keys.key_hash", "=", hash)
+    .executeTakeFirst();
+
+export const findApiKeyById = (db: Db, orgId: number, id: number) =>
+  db.selectFrom("api_keys").selectAll().where("org_id", "=", orgId).where("id", "=", id).executeTakeFirst();
+
+export const findApiKeyByPrefix = (db: Db, orgId: number, prefix: string) =>
+  db.selectFrom("api_keys").selectAll().where("org_id", "=", orgId).where("prefix", "=", prefix).execute();
+
+export const listApiKeys = (db: Db, orgId: number) =>
+  db.selectFrom("api_keys").selectAll().where("org_id", "=", orgId).orderBy("id").execute();
+
+export const updateApiKey = (db: Db, orgId: number, id: number, patch: ApiKeyUpdate) =>
+  db.updateTable("api_keys").set(patch).where("org_id", "=", orgId).where("id", "=", id).returningAll().executeTakeFirst();
+
+export const touchApiKey = (db: Db, id: number, at: string) =>
+  db.updateTable("api_keys").set({ last_used_at: at }).where("id", "=", id).execute();

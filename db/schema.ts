@@ -1,0 +1,114 @@
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from "kysely";
+
+/** Times are ISO-8601 UTC strings: portable between SQLite and Postgres and sortable as text. */
+type Timestamp = string;
+
+export interface OrgTable {
+  id: Generated<number>;
+  slug: string;
+  name: string;
+  plan: string;
+  created_at: Timestamp;
+}
+
+export interface UserTable {
+  id: Generated<number>;
+  email: string;
+  name: string | null;
+  created_at: Timestamp;
+}
+
+export type Role = "owner" | "developer" | "billing";
+
+export interface MembershipTable {
+  id: Generated<number>;
+  org_id: number;
+  user_id: number;
+  role: Role;
+  created_at: Timestamp;
+}
+
+export type KeyMode = "live" | "test";
+
+export interface ApiKeyTable {
+  id: Generated<number>;
+  org_id: number;
+  name: string;
+  mode: KeyMode;
+  /** The first characters of the key, shown in lists so a person can tell keys apart. */
+  prefix: string;
+  /** SHA-256 of the whole key, hex. The key itself is never stored. */
+  key_hash: string;
+  /** Space-separated scope names. */
+  scopes: string;
+  created_by_user_id: number | null;
+  created_at: Timestamp;
+  expires_at: Timestamp | null;
+  revoked_at: Timestamp | null;
+  last_used_at: Timestamp | null;
+}
+
+export interface UsageEventTable {
+  id: Generated<number>;
+  org_id: number;
+  api_key_id: number | null;
+  /** Operation id of the endpoint definition, e.g. "distance". */
+  endpoint: string;
+  method: string;
+  status: number;
+  units: number;
+  duration_ms: number;
+  request_id: string;
+  created_at: Timestamp;
+  /** Set once the event has been sent to the billing provider (outbox). */
+  reported_at: Timestamp | null;
+}
+
+export interface IdempotencyRecordTable {
+  id: Generated<number>;
+  org_id: number;
+  idem_key: string;
+  endpoint: string;
+  request_hash: string;
+  state: "running" | "done";
+  response_status: number | null;
+  response_headers: string | null;
+  response_body: string | null;
+  created_at: Timestamp;
+  expires_at: Timestamp;
+}
+
+export interface AuditLogTable {
+  id: Generated<number>;
+  org_id: number;
+  actor: string;
+  action: string;
+  target_type: string;
+  target_id: string;
+  details: ColumnType<string, string | undefined, string>;
+  created_at: Timestamp;
+}
+
+export interface Database {
+  orgs: OrgTable;
+  users: UserTable;
+  memberships: MembershipTable;
+  api_keys: ApiKeyTable;
+  usage_events: UsageEventTable;
+  idempotency_records: IdempotencyRecordTable;
+  audit_log: AuditLogTable;
+}
+
+export type Org = Selectable<OrgTable>;
+export type NewOrg = Insertable<OrgTable>;
+export type User = Selectable<UserTable>;
+export type NewUser = Insertable<UserTable>;
+export type Membership = Selectable<MembershipTable>;
+export type ApiKey = Selectable<ApiKeyTable>;
+export type NewApiKey = Insertable<ApiKeyTable>;
+export type ApiKeyUpdate = Updateable<ApiKeyTable>;
+export type UsageEvent = Selectable<UsageEventTable>;
+export type NewUsageEvent = Insertable<UsageEventTable>;
+export type IdempotencyRecord = Selectable<IdempotencyRecordTable>;
+export type AuditEntry = Selectable<AuditLogTable>;
+export type NewAuditEntry = Insertable<AuditLogTable>;

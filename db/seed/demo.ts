@@ -1,0 +1,103 @@
+import type { Db } from "@/db";
+import { nowIso } from "@/db";
+import { insertApiKey } from "@/db/queries/api-keys";
+import { insertAudit } from "@/db/queries/audit";
+import { findOrgBySlug, insertOrg } from "@/db/queries/orgs";
+import { insertMembership, insertUser } from "@/db/queries/users";
+import { createKey } from "@/lib/api/key-service";
+import { generateKey } from "@/lib/api/keys";
+import { allScopes } from "@/lib/api/scopes";
+
+/**
+ * The demo scenario: Brinewatch Buoys builds moored ocean-sensor buoys that report over a
+ * narrowband telemetry link; its firmware team checks the link's coding from CI.
+ */
+export const DEMO_ORG = { slug: "brinewatch", name: "Brinewatch Buoys" };
+export const DEMO_USERS = [
+  { email: "noor.halvorsen@brinewatch.example", name: "Noor Halvorsen", role: "owner" as const },
+  { email: "teo.quillan@brinewatch.example", name: "Teo Quillan", role: "developer" as const },
+  { email: "amara.lindqvist@brinewatch.example", name: "Amara Lindqvist", role: "billing" as const },
+];
+
+const DAY = 86_400_000;
+const ENDPOINTS: [string, string, number][] = [
+  ["distance", "POST", 1],
+  ["channels.bsc", "POST", 1],
+  ["capacity", "POST", 1],
+  ["links.ber", "POST", 1],
+  ["usage", "GET", 0],
+];
+
+/** A small deterministic generator so the demo looks the same on every machine (mulberry32). */
+function rng(seed: number) {
+  return () => {
+    seed = (seed + 0x6d2b79f5) | 0;
+    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Seed the demo org once; later runs leave it as it is. Returns the org id. */
+export async function seedDemo(db: Db, now = new Date()): Promise<number> {
+  const existing = await findOrgBySlug(db, DEMO_ORG.slug);
+  if (existing) return existing.id;
+  return db.transaction().execute(async (tx) => {
+    const org = await insertOrg(tx, { ...DEMO_ORG, plan: "team" });
+    const users = [];
+    for (const u of DEMO_USERS) {
+      const user = await insertUser(tx, u);
+      await insertMembership(tx, { orgId: org.id, userId: user.id, role: u.role });
+      users.push(user);
+    }
+    const dev = users[1]!.id;
+    const ci = await createKey(tx, { orgId: org.id, name: "buoy firmware CI", mode: "live", scopes: allScopes, createdByUserId: dev }, `user:${dev}`);
+    const bench = await createKey(tx, { orgId: org.id, name: "bench rig", mode: "test", scopes: ["compute"], createdByUserId: dev }, `user:${dev}`);
+    // Keys in the other states: one revoked after a leak drill, one that expired.
+    for (const [name, state] of [["modem v1 (retired)", "revoked"], ["summer intern trial", "expired"]] as const) {
+      const { prefix, hash } = generateKey("test");
+      const k = await insertApiKey(tx, {
+        org_id: org.id,
+        name,
+        mode: "test",
+        prefix,
+        key_hash: hash,
+        scopes: allScopes.join(" "),
+        created_by_user_id: users[0]!.id,
+        created_at: new Date(now.getTime() - 60 * DAY).toISOString(),
+        expires_at: state === "expired" ? new Date(now.getTime() - 5 * DAY).toISOString() : null,
+        revoked_at: state === "revoked" ? new Date(now.getTime() - 12 * DAY).toISOString() : null,
+      });
+      await insertAudit(tx, { orgId: org.id, actor: `user:${users[0]!.id}`, action: state === "revoked" ? "key.revoked" : "key.created", targetType: "api_key", targetId: k.id });
+    }
+    // 30 days of CI traffic: heavier on weekdays, a few refused calls.
+    const rand = rng(20261201);
+    const rows = [];
+    for (let d = 29; d >= 0; d--) {
+      const day = new Date(now.getTime() - d * DAY);
+      const weekday = day.getUTCDay() % 6 !== 0;
+      for (const [endpoint, method, cost] of ENDPOINTS) {
+        const calls = Math.round((weekday ? 18 : 4) * (0.5 + rand()) * (endpoint === "usage" ? 0.2 : 1));
+        for (let c = 0; c < calls; c++) {
+          const status = rand() < 0.04 ? 422 : 200;
+          const at = new Date(day.getTime() - Math.floor(rand() * 8 * 3600_000));
+          rows.push({
+            org_id: org.id,
+            api_key_id: rand() < 0.8 ? ci.record.id : bench.record.id,
+            endpoint,
+            method,
+            status,
+            units: status === 200 ? cost : 0,
+            duration_ms: Math.round((1 + rand() * 6) * 1000) / 1000,
+            request_id: `req_seed${d}x${c}${endpoint.replace(/\W/g, "")}`,
+            created_at: at.toISOString(),
+            reported_at: null,
+          });
+        }
+      }
+    }
+    for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
+    await tx.updateTable("api_keys").set({ last_used_at: nowIso() }).where("id", "=", ci.record.id).execute();
+    return org.id;
+  });
+}

@@ -1,0 +1,77 @@
+import { z } from "zod";
+import { bscCapacity } from "@/lib/core/capacity";
+import { bscBlockError, bscFlips, bscPostDecodingBer } from "@/lib/core/channels";
+import { defineEndpoint } from "../endpoint";
+import { caution, probability, tail, toTail } from "../schemas";
+
+export const MAX_BLOCK_LENGTH = 1_000_000;
+
+const input = z
+  .strictObject({
+    n: z.number().int().min(1).max(MAX_BLOCK_LENGTH).meta({ description: `Block length in bits (1 to ${MAX_BLOCK_LENGTH}).`, example: 7 }),
+    p: probability.meta({ description: "Crossover probability of the BSC, 0 ≤ p ≤ 1.", example: 0.001 }),
+    flips: z.number().int().min(0).optional().meta({ description: "i: report P(exactly / at most / more than i flips in n)." }),
+    t: z.number().int().min(0).optional().meta({ description: "Errors corrected per block by a bounded-distance decoder." }),
+  })
+  .superRefine((v, ctx) => {
+    if (v.flips !== undefined && v.flips > v.n) ctx.addIssue({ code: "custom", path: ["flips"], message: `flips must be at most n = ${v.n}.` });
+    if (v.t !== undefined && v.t > v.n) ctx.addIssue({ code: "custom", path: ["t"], message: `t must be at most n = ${v.n}.` });
+  })
+  .meta({ id: "BscRequest" });
+
+const output = z
+  .object({
+    n: z.number().int(),
+    p: z.number(),
+    capacity: z.object({ value: z.number(), unit: z.literal("bits per channel use") }).meta({ description: "1 − H2(p) (Shannon 1948)." }),
+    flips: z
+      .object({ i: z.number().int(), exactly: tail, atMost: tail, moreThan: tail })
+      .optional()
+      .meta({ description: "Binomial(n, p) probabilities of the number of flipped bits." }),
+    decoding: z
+      .object({
+        t: z.number().int(),
+        blockError: tail.meta({ description: "P(more than t flips): the block error probability of bounded-distance decoding." }),
+        postDecodingBer: tail.meta({
+          description: "Estimate of the bit error rate after decoding, (1/n)·Σ_{j>t} j·C(n,j)p^j(1−p)^(n−j): assumes a failed block keeps its j channel errors.",
+        }),
+      })
+      .optional(),
+    caution: z.string(),
+  })
+  .meta({ id: "BscResult" });
+
+export const bsc = defineEndpoint({
+  id: "channels.bsc",
+  method: "POST",
+  path: "/channels/bsc",
+  scope: "compute",
+  tag: "Channels",
+  summary: "Flip counts, block error and post-decoding BER on a binary symmetric channel",
+  description:
+    "Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. " +
+    "With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate. Cost: 1 unit.",
+  input,
+  output,
+  examples: {
+    hamming74: { summary: "A single-error-correcting length-7 code at p = 1e-3", value: { n: 7, p: 0.001, t: 1 } },
+    flips: { summary: "Chance of more than 3 flips in a 1,000-bit frame", value: { n: 1000, p: 0.0005, flips: 3 } },
+    deepTail: { summary: "A tail far below double precision", value: { n: 1000000, p: 1e-9, t: 60 } },
+  },
+  cost: 1,
+  handler: (req) => ({
+    n: req.n,
+    p: req.p,
+    capacity: { value: bscCapacity(req.p), unit: "bits per channel use" as const },
+    ...(req.flips !== undefined
+      ? (() => {
+          const f = bscFlips(req.n, req.flips, req.p);
+          return { flips: { i: req.flips, exactly: toTail(f.exactly), atMost: toTail(f.atMost), moreThan: toTail(f.moreThan) } };
+        })()
+      : {}),
+    ...(req.t !== undefined
+      ? { decoding: { t: req.t, blockError: toTail(bscBlockError(req.n, req.t, req.p)), postDecodingBer: toTail(bscPostDecodingBer(req.n, req.t, req.p)) } }
+      : {}),
+    caution,
+  }),
+});

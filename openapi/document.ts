@@ -1,0 +1,93 @@
+import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-openapi";
+import { z } from "zod";
+import { MAX_BODY_BYTES } from "@/lib/api/body";
+import { problemSchema, problemTypes, type ProblemCode } from "@/lib/api/errors";
+import { IDEMPOTENCY_TTL_MS } from "@/lib/api/idempotency";
+import { RATE_WINDOW_SECONDS } from "@/lib/api/rate-limit";
+import { endpoints } from "@/lib/api/registry";
+import { caution } from "@/lib/api/schemas";
+import { scopeCatalogue } from "@/lib/api/scopes";
+
+const rateHeaders = {
+  RateLimit: { description: "Requests left in the current window and seconds until it resets (IETF RateLimit header fields).", schema: { type: "string" as const, example: '"per-key";r=599;t=42' } },
+  "RateLimit-Policy": { description: `Requests per ${RATE_WINDOW_SECONDS}-second window for this key.`, schema: { type: "string" as const, example: `"per-key";q=600;w=${RATE_WINDOW_SECONDS}` } },
+  "X-Request-Id": { description: "Identifies this request in logs and usage rows.", schema: { type: "string" as const } },
+};
+
+function problem(code: ProblemCode, extra = "") {
+  const t = problemTypes[code];
+  return {
+    description: `${t.title}. ${t.help}${extra}`,
+    headers: code === "rate-limited" ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } } : rateHeaders,
+    content: { "application/problem+json": { schema: problemSchema } },
+  };
+}
+
+/** The OpenAPI 3.1 document, built from the endpoint definitions. */
+export function buildOpenApiDocument() {
+  const registry = new OpenAPIRegistry();
+  const bearer = registry.registerComponent("securitySchemes", "apiKey", {
+    type: "http",
+    scheme: "bearer",
+    description: "An API key: `Authorization: Bearer prt_live_…` (or `prt_test_…`).",
+  });
+
+  for (const e of endpoints) {
+    const examples = Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: ex.value }]));
+    const isGet = e.method === "GET";
+    registry.registerPath({
+      method: e.method.toLowerCase() as "get" | "post" | "delete",
+      path: e.path,
+      operationId: e.id,
+      tags: [e.tag],
+      summary: e.summary,
+      description: `${e.description}\n\nScope: \`${e.scope}\`.`,
+      security: [{ [bearer.name]: [] }],
+      request: isGet
+        ? { query: e.input as z.ZodObject }
+        : {
+            headers: z.object({
+              "Idempotency-Key": z.string().max(255).optional().meta({
+                description: `Replays the stored response for the same key and body for ${IDEMPOTENCY_TTL_MS / 3600000} h; another body with the same key is a 422 problem.`,
+              }),
+            }),
+            body: { required: true, description: `JSON, at most ${MAX_BODY_BYTES} bytes.`, content: { "application/json": { schema: e.input, examples } } },
+          },
+      responses: {
+        200: {
+          description: "Success.",
+          headers: { ...rateHeaders, "X-Compute-Units": { description: "Compute units charged for this call.", schema: { type: "integer" } } },
+          content: { "application/json": { schema: e.output } },
+        },
+        ...(isGet ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
+        401: problem("unauthenticated"),
+        403: problem("forbidden"),
+        422: problem("validation-failed"),
+        429: problem("rate-limited"),
+      },
+    });
+  }
+
+  registry.registerPath({
+    method: "get",
+    path: "/openapi.json",
+    operationId: "openapi",
+    tags: ["Account"],
+    summary: "This OpenAPI 3.1 document",
+    responses: { 200: { description: "The document.", content: { "application/json": { schema: z.object({}).passthrough() } } } },
+  });
+
+  const scopes = Object.entries(scopeCatalogue).map(([s, d]) => `- \`${s}\`: ${d}`).join("\n");
+  return new OpenApiGeneratorV31(registry.definitions).generateDocument({
+    openapi: "3.1.0",
+    info: {
+      title: "Paritas API",
+      version: "1.0.0",
+      description:
+        "Channel-coding math as an API: distances and codebooks, BSC error probabilities, capacity and the Shannon limit, uncoded BER on AWGN.\n\n" +
+        "Authenticate with `Authorization: Bearer <key>`. Errors are RFC 9457 problem details (`application/problem+json`); validation failures list each field as a JSON pointer. " +
+        `Every response carries \`X-Request-Id\` and the RateLimit header fields; bodies are limited to ${MAX_BODY_BYTES} bytes.\n\nScopes:\n${scopes}\n\n${caution}`,
+    },
+    servers: [{ url: "/api/v1" }],
+  });
+}

@@ -1,0 +1,18 @@
+import { randomUUID } from "node:crypto";
+import { rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll } from "vitest";
+import { closeDb } from "@/db";
+import { resetRateLimits } from "@/lib/api/rate-limit";
+
+// Each test file gets its own fresh database file and rate-limit counters.
+const file = join(tmpdir(), `paritas-test-${randomUUID()}.db`);
+process.env.PARITAS_DB_FILE = file;
+await closeDb();
+resetRateLimits();
+
+afterAll(async () => {
+  await closeDb();
+  for (const suffix of ["", "-wal", "-shm"]) rmSync(file + suffix, { force: true });
+});
