@@ -44,38 +44,41 @@ export default function Home() {
     <>
       {/* ---- Opening ---- */}
       <section aria-labelledby="intro-heading" className="pa-grid border-b border-rule">
-        <div className="mx-auto max-w-6xl px-5 pt-14 pb-16 sm:px-8 sm:pt-20 sm:pb-20">
-          <p className="font-mono text-xs font-medium tracking-wide text-accent uppercase">
-            REST API · versioned under /api/v1
-          </p>
-          <h1
-            id="intro-heading"
-            className="mt-4 max-w-3xl text-[2.125rem] leading-[1.15] font-semibold tracking-tight text-balance sm:text-5xl"
-          >
-            Channel-coding math, callable from your build.
-          </h1>
-          <p className="mt-6 max-w-2xl text-lg text-ink-2">
-            Paritas is a hosted API for the arithmetic of error-correcting codes. Firmware, DSP and
-            link engineers call it from CI to test an error-rate claim and get a verdict with a
-            stated confidence, to hold their encoders and decoders against a bit-exact reference,
-            and to compute error probabilities, bounds, channel capacity and the distance to the
-            Shannon limit — without keeping a private pile of scripts in sync.
-          </p>
-          <div className="mt-8 flex flex-col gap-3 sm:flex-row sm:items-center">
-            <a
-              href="/docs"
-              className="inline-flex items-center justify-center rounded-md bg-accent px-5 py-2.5 font-medium text-accent-ink no-underline shadow-sm hover:brightness-110"
+        <div className="mx-auto grid max-w-6xl gap-12 px-5 pt-14 pb-16 sm:px-8 sm:pt-20 sm:pb-20 lg:grid-cols-[minmax(0,7fr)_minmax(0,5fr)] lg:items-center">
+          <div>
+            <p className="font-mono text-xs font-medium tracking-wide text-accent uppercase">
+              REST API · versioned under /api/v1
+            </p>
+            <h1
+              id="intro-heading"
+              className="mt-4 max-w-3xl text-[2.125rem] leading-[1.15] font-semibold tracking-tight text-balance sm:text-5xl"
             >
-              Open the API reference
-            </a>
-            <a
-              href="/console"
-              className="inline-flex items-center justify-center gap-2 rounded-md border border-rule bg-surface px-5 py-2.5 font-medium text-ink no-underline hover:bg-sunken"
-            >
-              Console
-              <span className="text-sm font-normal text-ink-2">— not built yet</span>
-            </a>
+              Channel-coding math, callable from your build.
+            </h1>
+            <p className="mt-6 max-w-2xl text-lg text-ink-2">
+              Paritas is a hosted API for the arithmetic of error-correcting codes. Firmware, DSP and
+              link engineers call it from CI to test an error-rate claim and get a verdict with a
+              stated confidence, to hold their encoders and decoders against a bit-exact reference,
+              and to compute error probabilities, bounds, channel capacity and the distance to the
+              Shannon limit — without keeping a private pile of scripts in sync.
+            </p>
+            <div className="mt-8 flex flex-col gap-3 sm:flex-row sm:items-center">
+              <a
+                href="/docs"
+                className="inline-flex items-center justify-center rounded-md bg-accent px-5 py-2.5 font-medium text-accent-ink no-underline shadow-sm hover:brightness-110"
+              >
+                Open the API reference
+              </a>
+              <a
+                href="/console"
+                className="inline-flex items-center justify-center gap-2 rounded-md border border-rule bg-surface px-5 py-2.5 font-medium text-ink no-underline hover:bg-sunken"
+              >
+                Console
+                <span className="text-sm font-normal text-ink-2">— not built yet</span>
+              </a>
+            </div>
           </div>
+          <SyndromeFigure />
         </div>
       </section>
 
@@ -116,7 +119,8 @@ export default function Home() {
           </h2>
           <p className="mt-3 text-ink-2">
             Ask for the capacity of a binary symmetric channel that flips 11 % of its bits. The
-            answer is close to half a bit per channel use, since 1 − H₂(0.11) ≈ 0.50.
+            answer is close to half a bit per channel use, since{" "}
+            <span className="whitespace-nowrap">1 − H₂(0.11) ≈ 0.50</span>.
           </p>
           <p className="mt-3 text-ink-2">
             Replace <code className="pa-code">&lt;key&gt;</code> with one of your API keys and{" "}
@@ -127,9 +131,10 @@ export default function Home() {
           </p>
         </div>
         <CodeBlock label="shell">
-          <span className="text-code-dim"># capacity of a BSC with crossover probability 0.11</span>
+          <span className="text-code-dim"># BSC capacity at p = 0.11</span>
           {"\n"}
-          curl -sS -X POST <span className="text-code-str">&quot;$PARITAS_URL/api/v1/capacity&quot;</span> \{"\n"}
+          curl -sS -X POST \{"\n"}
+          {"  "}<span className="text-code-str">&quot;$PARITAS_URL/api/v1/capacity&quot;</span> \{"\n"}
           {"  "}-H <span className="text-code-str">&quot;Authorization: Bearer &lt;key&gt;&quot;</span> \{"\n"}
           {"  "}-H <span className="text-code-str">&quot;Content-Type: application/json&quot;</span> \{"\n"}
           {"  "}-d <span className="text-code-str">&apos;{"{"}</span>
@@ -151,9 +156,9 @@ export default function Home() {
           </a>
         </div>
         <div className="mt-6 overflow-hidden rounded-lg border border-rule bg-surface">
-          <table className="w-full border-collapse text-left text-sm">
+          <table className="block w-full border-collapse text-left text-sm sm:table">
             <caption className="sr-only">Paritas API endpoints under /api/v1</caption>
-            <thead className="bg-sunken text-ink-2">
+            <thead className="hidden bg-sunken text-ink-2 sm:table-header-group">
               <tr>
                 <th scope="col" className="px-4 py-2.5 font-medium">
                   Endpoint
@@ -163,13 +168,13 @@ export default function Home() {
                 </th>
               </tr>
             </thead>
-            <tbody>
+            <tbody className="block sm:table-row-group">
               {endpoints.map(([method, path, does]) => (
-                <tr key={path} className="border-t border-rule align-top">
-                  <td className="px-4 py-2.5 font-mono text-[0.8125rem] whitespace-nowrap">
+                <tr key={path} className="block border-rule align-top not-first:border-t sm:table-row sm:border-t">
+                  <td className="block px-4 pt-3 font-mono text-[0.8125rem] whitespace-nowrap sm:table-cell sm:py-2.5">
                     <span className="text-ink-2">{method}</span> {path}
                   </td>
-                  <td className="px-4 py-2.5 text-ink-2">{does}</td>
+                  <td className="block px-4 pt-0.5 pb-3 text-ink-2 sm:table-cell sm:py-2.5">{does}</td>
                 </tr>
               ))}
             </tbody>
@@ -203,5 +208,72 @@ export default function Home() {
         <Caution />
       </section>
     </>
+  );
+}
+
+/*
+ * Hamming (7,4) with p1 = d1^d2^d4, p2 = d1^d3^d4, p3 = d2^d3^d4.
+ * Sent 1011|010; bit 2 flips; received 1111|010 gives syndrome (1,0,1) = the column of d2.
+ */
+const sent = [1, 0, 1, 1, 0, 1, 0] as const;
+const flipped = 1; // zero-based index of the bit the channel flips
+const received = sent.map((b, i) => (i === flipped ? 1 - b : b));
+
+function BitRow({ label, bits, mark }: { label: string; bits: readonly number[]; mark?: number }) {
+  return (
+    <div className="flex items-center gap-3">
+      <span className="w-20 shrink-0 text-right font-mono text-xs text-ink-2">{label}</span>
+      <div className="flex gap-1">
+        {bits.map((b, i) => (
+          <span
+            key={i}
+            className={[
+              "flex h-9 w-8 items-center justify-center rounded font-mono text-base",
+              i === mark
+                ? "border-2 border-dashed border-caution-rule bg-caution-bg text-caution-ink"
+                : i < 4
+                  ? "border border-rule bg-surface text-ink"
+                  : "border border-brass/60 bg-brass/15 text-ink",
+              i === 4 ? "ml-2" : "",
+            ].join(" ")}
+          >
+            {b}
+          </span>
+        ))}
+      </div>
+    </div>
+  );
+}
+
+function SyndromeFigure() {
+  return (
+    <figure className="hidden max-w-lg rounded-xl border border-rule bg-surface/85 p-6 shadow-sm md:block lg:max-w-none">
+      <div aria-hidden="true" className="flex flex-col gap-2.5">
+        <div className="flex gap-3">
+          <span className="w-20 shrink-0" />
+          <div className="flex gap-1 font-mono text-[0.6875rem] text-ink-2">
+            <span className="w-[8.75rem]">data</span>
+            <span className="ml-2">parity</span>
+          </div>
+        </div>
+        <BitRow label="sent" bits={sent} />
+        <BitRow label="received" bits={received} mark={flipped} />
+        <div className="flex items-center gap-3 pt-1">
+          <span className="w-20 shrink-0 text-right font-mono text-xs text-ink-2">syndrome</span>
+          <span className="font-mono text-sm">
+            <span className="rounded bg-sunken px-1.5 py-0.5">101</span>
+            <span className="text-ink-2"> → bit 2 flipped, corrected</span>
+          </span>
+        </div>
+      </div>
+      <figcaption className="mt-5 border-t border-rule pt-4 text-sm text-ink-2">
+        <span className="sr-only">
+          Example: the codeword 1011 010 is sent, the channel flips bit 2, 1111 010 arrives, and
+          the syndrome 101 points at bit 2.{" "}
+        </span>
+        Hamming (7,4): three parity bits locate any single flipped bit. The same decode runs
+        behind <code className="pa-code text-xs">POST /decode</code>, for every code family.
+      </figcaption>
+    </figure>
   );
 }

@@ -47,12 +47,13 @@ export function toPointer(path: readonly PropertyKey[]): string {
   return path.map((p) => "/" + String(p).replace(/~/g, "~0").replace(/\//g, "~1")).join("");
 }
 
-/** zod issues → field errors with JSON pointers. */
+/** zod issues → field errors with JSON pointers; an unknown field of a strict object points at that field itself. */
 export function fieldErrorsFromZod(error: z.ZodError, prefix = ""): FieldError[] {
-  return error.issues.map((issue) => ({
-    pointer: prefix + toPointer(issue.path),
-    message: issue.message,
-  }));
+  return error.issues.flatMap((issue) =>
+    issue.code === "unrecognized_keys"
+      ? issue.keys.map((key) => ({ pointer: prefix + toPointer([...issue.path, key]), message: `Unknown field \`${key}\`.` }))
+      : [{ pointer: prefix + toPointer(issue.path), message: issue.message }],
+  );
 }
 
 export const problemSchema = z

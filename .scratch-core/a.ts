@@ -1,0 +1,14 @@
+import * as P from "/work/main/lib/core/probability";
+import * as C from "/work/main/lib/core/capacity";
+import * as M from "/work/main/lib/core/modulation";
+import pmf from "@stdlib/stats-base-dists-binomial-pmf";
+import cdf from "@stdlib/stats-base-dists-binomial-cdf";
+console.log(P.binomialPmf(10, 3, 0.3), pmf(3, 10, 0.3));
+console.log(P.binomialCdf(10, 3, 0.3), cdf(3, 10, 0.3));
+console.log(P.logBinomialSf(1e6, 40, 1e-15), P.logBinomialSf(1e6, 5000, 1e-3), P.logBinomialCdf(1e6,500000,0.5));
+let t=Date.now(); for (let i=0;i<10;i++) P.logBinomialSf(1e6, 500000+i, 0.5); console.log("ms/call", (Date.now()-t)/10);
+for (const db of [-30,-10,0,0.187,10,20,30]) console.log(db, C.bpskAwgnCapacity(10**(db/10)));
+t=Date.now(); for (const r of [0.25,1/3,0.5,2/3,0.75,0.9, 0.001]) console.log(r, 10*Math.log10(C.bpskShannonLimitEbN0(r))); console.log("ms", Date.now()-t);
+console.log(M.uncodedErrorRates({scheme:"psk",order:8}, 10), M.pskSymbolErrorRate(4, 3).value, M.uncodedErrorRates({scheme:"qpsk"},3).ser, M.pskSymbolErrorRate(2, 3).value, M.qfunc(Math.sqrt(6)));
+for (const b of [1e-3,1e-5,1e-6]) console.log(10*Math.log10(M.requiredEbN0({scheme:"bpsk"}, b)));
+t=Date.now(); console.log(10*Math.log10(M.requiredEbN0({scheme:"psk",order:1024}, 1e-300)), 10*Math.log10(M.requiredEbN0({scheme:"psk",order:8}, 0.29))); console.log("ms", Date.now()-t);
