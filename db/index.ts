@@ -13,7 +13,7 @@ export function databaseFile(): string {
 }
 
 export function openDb(file: string = databaseFile()): Db {
-  if (file !== ":memory:") mkdirSync(dirname(resolve(file)), { recursive: true });
+  if (file !== ":memory:") mkdirSync(dirname(resolve(/*turbopackIgnore: true*/ file)), { recursive: true });
   const sqlite = new Database(file);
   sqlite.pragma("journal_mode = WAL");
   sqlite.pragma("busy_timeout = 5000");
@@ -58,3 +58,8 @@ export async function closeDb(): Promise<void> {
 }
 
 export const nowIso = () => new Date().toISOString();
+
+/** Run `fn` in a transaction: the caller's, when `db` already is one, else a new one. */
+export function inTransaction<T>(db: Db, fn: (tx: Db) => Promise<T>): Promise<T> {
+  return db.isTransaction ? fn(db) : db.transaction().execute(fn);
+}

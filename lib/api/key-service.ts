@@ -1,5 +1,5 @@
 import type { Db } from "@/db";
-import { nowIso } from "@/db";
+import { inTransaction, nowIso } from "@/db";
 import { insertAudit } from "@/db/queries/audit";
 import { findApiKeyById, insertApiKey, listApiKeys, updateApiKey } from "@/db/queries/api-keys";
 import type { ApiKey, KeyMode } from "@/db/schema";
@@ -18,7 +18,7 @@ export interface CreateKeyInput {
 /** Create a key and its audit row in one transaction. The plaintext key is returned once and never stored. */
 export async function createKey(db: Db, input: CreateKeyInput, actor: string): Promise<{ key: string; record: ApiKey }> {
   const { key, prefix, hash } = generateKey(input.mode);
-  const record = await db.transaction().execute(async (tx) => {
+  const record = await inTransaction(db, async (tx) => {
     const row = await insertApiKey(tx, {
       org_id: input.orgId,
       name: input.name,
@@ -45,7 +45,7 @@ export async function createKey(db: Db, input: CreateKeyInput, actor: string): P
 
 /** Revoke a key now; its audit row is written in the same transaction. Undefined if the org has no such key. */
 export async function revokeKey(db: Db, orgId: number, keyId: number, actor: string): Promise<ApiKey | undefined> {
-  return db.transaction().execute(async (tx) => {
+  return inTransaction(db, async (tx) => {
     const existing = await findApiKeyById(tx, orgId, keyId);
     if (!existing) return undefined;
     if (existing.revoked_at) return existing;
