@@ -38,7 +38,7 @@ const { key } = await createKey(db, { orgId: org.id, name: "bench", mode: "test"
 await closeDb();
 
 const port = await freePort();
-const server = spawn("npx", ["next", "start", "-H", "127.0.0.1", "-p", String(port)], {
+const server = spawn("node_modules/.bin/next", ["start", "-H", "127.0.0.1", "-p", String(port)], {
   stdio: "ignore",
   env: { ...process.env, PARITAS_DB_FILE: dbFile, PARITAS_RATE_LIMIT_PER_MINUTE: "1000000000" },
   detached: true,

@@ -19,8 +19,17 @@ if (process.env.PARITAS_DEMO_SKIP_BUILD !== "1") {
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
 
-const server = spawn("npx", ["next", "start", "-p", String(port)], { stdio: "inherit", env: { ...process.env, PARITAS_DB_FILE: databaseFile() } });
-for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => server.kill(sig));
+// Its own process group, so that stopping the demo stops next-server too.
+const server = spawn("node_modules/.bin/next", ["start", "-p", String(port)], { stdio: "inherit", detached: true, env: { ...process.env, PARITAS_DB_FILE: databaseFile() } });
+for (const sig of ["SIGINT", "SIGTERM"] as const) {
+  process.on(sig, () => {
+    try {
+      process.kill(-server.pid!, sig);
+    } catch {
+      // already stopped
+    }
+  });
+}
 server.on("exit", (code) => process.exit(code ?? 0));
 
 const base = `http://localhost:${port}`;

@@ -74,7 +74,7 @@ export const linkBer = defineEndpoint({
   tag: "Links",
   summary: "Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain",
   description:
-    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ SER/log2 M (Gray). " +
+    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). " +
     "The inverse is found by root finding (exact inverse for BPSK/QPSK). Cost: 1 unit per 100 sweep points (at least 1).",
   input,
   output,

@@ -1,0 +1,48 @@
+import type { Bits } from "../bits";
+
+/** A word: bits as 0/1 in a Uint8Array for binary codes, GF(2^m) symbols in a Uint16Array for Reed–Solomon. */
+export type Word = Uint8Array | Uint16Array;
+
+/** What a decoder says about one received word. */
+export interface DecodeResult {
+  /** The decoded message (k bits, or k symbols for a symbol code). On failure, the best estimate the decoder has. */
+  message: Word;
+  /** The corrected codeword (n bits or symbols). */
+  codeword: Word;
+  /** 0-based positions the decoder changed (bits, or symbols for a symbol code), erasures included. */
+  correctedPositions: number[];
+  /** Syndrome of the received word before correction (bits; symbols for Reed–Solomon). All zero = a codeword. */
+  syndrome: Word;
+  /** The decoder detected that it could not decode (never a silently wrong word where failure is detectable). */
+  failure: boolean;
+  /** Why it failed, or what it could not resolve (e.g. a tie in majority voting). */
+  reason?: string;
+}
+
+/**
+ * A block code: n, k and encode / decode over bits (q = 2) or over GF(2^m) symbols (q = 2^m).
+ * Messages and codewords are Words: 0/1 bits (binary) or symbols 0..q−1.
+ */
+export interface BlockCode {
+  family: string;
+  /** Human-readable name, e.g. "Hamming (7,4)". */
+  name: string;
+  n: number;
+  k: number;
+  /** Alphabet size: 2 for binary codes, 2^m for Reed–Solomon. */
+  q: number;
+  /** Minimum distance when known exactly (proven or by construction), else the designed distance with `dminIsDesigned`. */
+  dmin?: number;
+  dminIsDesigned?: boolean;
+  /** Message positions inside the codeword when the encoder is systematic. */
+  messagePositions?: number[];
+  /** Bit-order note shown in the API docs. */
+  bitOrder: string;
+  encode(message: Word): Word;
+  /** `erasures`: 0-based positions whose value is unknown, for families that support them. */
+  decode(received: Word, erasures?: number[]): DecodeResult;
+  /** Families that accept erasures. */
+  supportsErasures: boolean;
+  /** Binary linear codes: a k × n generator matrix (rows), systematic where the family is. */
+  generatorRows?(): Bits[];
+}
