@@ -85,8 +85,9 @@ export function defineEndpoint<I extends z.ZodType, O extends z.ZodType>(spec: E
     try {
       db = await getDb();
       principal = await authenticate(db, req.headers.get("authorization"), at0);
-      requireScope(principal, spec.scope);
+      // Every call of a known key counts against its rate, refused ones too: a key without the scope must not be a free loop of metered writes.
       headers = await consumeRate(principal.keyId);
+      requireScope(principal, spec.scope);
       response = await run(req, db, principal, requestId, headers, (u) => (units = u));
     } catch (err) {
       response = problemResponse(err instanceof InputError ? inputProblem(err) : err, requestId);
@@ -110,7 +111,9 @@ export function defineEndpoint<I extends z.ZodType, O extends z.ZodType>(spec: E
       const outcome = await beginIdempotent(db, { orgId: principal.orgId, key: idemKey, endpoint: spec.id, bodyText });
       if (outcome.kind === "replay") {
         const { status, headers, body } = outcome.response;
-        return new Response(body, { status, headers: { ...headers, ...rateHeaders, "x-request-id": requestId, "idempotency-replayed": "true" } });
+        // A replay is not charged (metered with 0 units), so its X-Compute-Units says 0, not the first call's charge.
+        const charged: Record<string, string> = "x-compute-units" in headers ? { "x-compute-units": "0" } : {};
+        return new Response(body, { status, headers: { ...headers, ...charged, ...rateHeaders, "x-request-id": requestId, "idempotency-replayed": "true" } });
       }
       let res: Response;
       try {

@@ -86,10 +86,11 @@ export const linkBer = defineEndpoint({
   },
   cost: (req) => Math.max(1, Math.ceil((Array.isArray(req.ebN0Db) ? req.ebN0Db.length : 1) / 100)),
   handler: (req) => {
-    const mod = at(["order"], () => modulationOf(req));
+    const mod = modulationOf(req);
     const order = req.modulation === "bpsk" ? 2 : req.modulation === "qpsk" ? 4 : req.order!;
     const sweep = req.ebN0Db === undefined ? [] : Array.isArray(req.ebN0Db) ? req.ebN0Db : [req.ebN0Db];
-    const probe = at(["order"], () => uncodedErrorRates(mod, 1));
+    // The core names the bad field of the modulation itself (["order"]): no prefix to add.
+    const probe = uncodedErrorRates(mod, 1);
     const points = sweep.map((db) => {
       const r = uncodedErrorRates(mod, dbToLinear(db));
       return { ebN0Db: db, ber: r.ber, ser: r.ser };

@@ -7,7 +7,9 @@ import { cursorParam, decodeCursor, encodeCursor, limitParam } from "../paginati
 const DAY_MS = 86_400_000;
 /** Longest period one request may cover. */
 export const MAX_USAGE_DAYS = 400;
-const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date as YYYY-MM-DD.").refine((s) => !Number.isNaN(Date.parse(s)), "Not a calendar date.");
+// Date.parse rolls impossible days over (2026-02-30 → 2026-03-02), so the date must also read back unchanged.
+const isCalendarDate = (s: string) => !Number.isNaN(Date.parse(s)) && new Date(Date.parse(s)).toISOString().slice(0, 10) === s;
+const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date as YYYY-MM-DD.").refine(isCalendarDate, "Not a calendar date.");
 const cursorShape = z.object({ day: z.string(), endpoint: z.string() });
 
 const input = z
