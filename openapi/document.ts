@@ -14,11 +14,18 @@ const rateHeaders = {
   "X-Request-Id": { description: "Identifies this request in logs and usage rows.", schema: { type: "string" as const } },
 };
 
-function problem(code: ProblemCode, extra = "") {
+function problem(code: ProblemCode) {
   const t = problemTypes[code];
+  // A 401 comes before the key is known, so it has no rate-limit window to report.
+  const headers =
+    code === "unauthenticated"
+      ? { "X-Request-Id": rateHeaders["X-Request-Id"] }
+      : code === "rate-limited"
+        ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } }
+        : rateHeaders;
   return {
-    description: `${t.title}. ${t.help}${extra}`,
-    headers: code === "rate-limited" ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } } : rateHeaders,
+    description: `${t.title}. ${t.help}`,
+    headers,
     content: { "application/problem+json": { schema: problemSchema } },
   };
 }
@@ -77,6 +84,28 @@ export function buildOpenApiDocument() {
     responses: { 200: { description: "The document.", content: { "application/json": { schema: z.object({}).passthrough() } } } },
   });
 
+  const document = generate(registry);
+  addQueryExamples(document);
+  return document;
+}
+
+/** zod-to-openapi puts no examples on query parameters: copy each GET example's values onto its parameters. */
+function addQueryExamples(document: ReturnType<typeof generate>): void {
+  for (const e of endpoints.filter((x) => x.method === "GET")) {
+    const op = document.paths?.[e.path]?.get;
+    for (const param of op?.parameters ?? []) {
+      if (!("name" in param)) continue;
+      const examples = Object.fromEntries(
+        Object.entries(e.examples)
+          .filter(([, ex]) => (ex.value as Record<string, unknown>)[param.name] !== undefined)
+          .map(([name, ex]) => [name, { summary: ex.summary, value: (ex.value as Record<string, unknown>)[param.name] }]),
+      );
+      if (Object.keys(examples).length) param.examples = examples;
+    }
+  }
+}
+
+function generate(registry: OpenAPIRegistry) {
   const scopes = Object.entries(scopeCatalogue).map(([s, d]) => `- \`${s}\`: ${d}`).join("\n");
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: "3.1.0",

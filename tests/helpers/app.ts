@@ -3,7 +3,7 @@ import { createServer, type IncomingMessage, type Server } from "node:http";
 
 /**
  * A node:http adapter around the real route modules under app/api, routed the way the
- * App Router does it: static segments, [param] and [...catchAll]. supertest drives it.
+ * App Router does it: static segments, [param], [...catchAll] and [[...optionalCatchAll]]. supertest drives it.
  */
 type Handler = (req: Request, ctx: { params: Promise<Record<string, string | string[]>> }) => Promise<Response> | Response;
 type RouteModule = Partial<Record<string, Handler>>;
@@ -20,7 +20,7 @@ const routeTable: Route[] = Object.entries(modules)
   .map(([file, module]) => {
     const segments = file.replace(/^\/app/, "").replace(/\/route\.ts$/, "").split("/").filter(Boolean);
     // Static segments win over [param], which wins over [...catchAll].
-    const rank = segments.reduce((r, s) => r * 3 + (s.startsWith("[...") ? 2 : s.startsWith("[") ? 1 : 0), 0);
+    const rank = segments.reduce((r, s) => r * 3 + (s.startsWith("[...") || s.startsWith("[[...") ? 2 : s.startsWith("[") ? 1 : 0), 0);
     return { segments, module, rank };
   })
   .sort((a, b) => a.rank - b.rank);
@@ -32,10 +32,14 @@ function match(pathname: string): { module: RouteModule; params: Record<string, 
     let ok = true;
     for (let i = 0; i < r.segments.length && ok; i++) {
       const s = r.segments[i]!;
+      if (s.startsWith("[[...")) {
+        params[s.slice(5, -2)] = parts.slice(i);
+        return { module: r.module, params };
+      }
       if (s.startsWith("[...")) {
+        if (parts.length <= i) break;
         params[s.slice(4, -1)] = parts.slice(i);
-        if (parts.length <= i) ok = false;
-        return ok ? { module: r.module, params } : undefined;
+        return { module: r.module, params };
       }
       if (parts[i] === undefined) ok = false;
       else if (s.startsWith("[")) params[s.slice(1, -1)] = parts[i]!;

@@ -52,7 +52,7 @@ const output = z
     channel: z.enum(["bsc", "bec", "awgn", "bpsk-awgn"]),
     capacity: quantity("bits per channel use").extend({ absError: z.number().optional().meta({ description: "Bound on the numerical integration error (BPSK input only)." }) }),
     capacityBitsPerSecond: quantity("bits/s").optional(),
-    snr: z.object({ db: z.number(), linear: z.number() }).optional().meta({ description: "S/N per real dimension used (AWGN), or Es/N0 (BPSK input)." }),
+    snr: z.object({ db: z.number().nullable().meta({ description: "null for S/N = 0 (−∞ dB)." }), linear: z.number() }).optional().meta({ description: "S/N per real dimension used (AWGN), or Es/N0 (BPSK input)." }),
     rate: z.number().optional(),
     rateMargin: quantity("bits per channel use").optional().meta({ description: "C − R: positive when reliable communication at rate R is possible." }),
     shannonLimit: z
@@ -114,7 +114,7 @@ export const capacity = defineEndpoint({
           channel: "awgn",
           capacity: { value: c, unit: "bits per channel use" },
           ...(req.bandwidthHz !== undefined ? { capacityBitsPerSecond: { value: shannonHartley(req.bandwidthHz, snr), unit: "bits/s" as const } } : {}),
-          snr: { db: linearToDb(snr), linear: snr },
+          snr: { db: snr > 0 ? linearToDb(snr) : null, linear: snr },
           ...margin(c, req.rate),
           ...(req.rate !== undefined ? limitFields(req.rate, shannonLimitEbN0(req.rate), "(2^(2R) − 1)/(2R) (Shannon 1948)", operating) : {}),
           caution,
