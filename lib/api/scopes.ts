@@ -1,6 +1,6 @@
 /** Scopes a key can carry. A key gets all of them unless it is created with fewer. */
 export const scopeCatalogue = {
-  compute: "Call the math endpoints: distance, channels, capacity, links.",
+  compute: "Call the math endpoints: codes, encode, decode, distance, channels, capacity, links.",
   "usage:read": "Read the organisation's metered usage.",
 } as const;
 

@@ -55,24 +55,30 @@ function checkEbN0(ebN0: number): void {
   if (!(ebN0 >= 0 && ebN0 < Infinity)) throw new InputError(`ebN0 must be a finite linear ratio ≥ 0; got ${ebN0}`);
 }
 
+// Beyond v = 27, e^{−v²} < 1e-316 and adds nothing to the integral.
+const V_MAX = 27;
+
 /**
- * Exact M-PSK symbol error rate by Craig's integral P = (1/π)∫₀^{(M−1)π/M} exp(−k·Eb/N0·sin²(π/M)/sin²θ) dθ
- * (Craig 1991; Proakis & Salehi 2008, ch. 4), written as e^{−c}/π·∫ exp(−c·cot²θ) dθ, c = k·Eb/N0·sin²(π/M),
- * so the integrand peaks at 1 and tiny results do not underflow early; adaptive Gauss–Legendre to relative 1e-13.
+ * Exact M-PSK symbol error rate by Craig's integral P = (1/π)∫₀^{(M−1)π/M} exp(−c/sin²θ) dθ, c = k·Eb/N0·sin²(π/M)
+ * (Craig 1991; Proakis & Salehi 2008, ch. 4), by adaptive Gauss–Legendre to relative 1e-13. For c > 1 the
+ * substitution v = √c·cot θ turns it into e^{−c}/(π√c)·[∫₀^∞ + ∫₀^{√c·cot(π/M)}] e^{−v²}/(1 + v²/c) dv, whose
+ * integrand no longer narrows as c grows and whose factor e^{−c} is taken out.
  */
 export function pskSymbolErrorRate(order: number, ebN0: number): { value: number; absError: number } {
   const { M, k } = resolve({ scheme: "psk", order });
   checkEbN0(ebN0);
   const c = k * ebN0 * Math.sin(Math.PI / M) ** 2;
-  const f = (theta: number) => {
-    const cot = Math.cos(theta) / Math.sin(theta);
-    return Math.exp(-c * cot * cot);
-  };
-  // The integrand peaks at θ = π/2; splitting there gives each panel a monotone integrand.
-  const left = integrate(f, 0, Math.PI / 2, { relTol: 1e-13 });
-  const right = integrate(f, Math.PI / 2, Math.PI - Math.PI / M, { relTol: 1e-13 });
-  const scale = Math.exp(-c) / Math.PI;
-  return { value: scale * (left.value + right.value), absError: scale * (left.absError + right.absError) };
+  const opts = { relTol: 1e-13 };
+  if (c <= 1) {
+    const f = (theta: number) => Math.exp(-c / Math.sin(theta) ** 2);
+    const r = integrate(f, 0, Math.PI - Math.PI / M, opts);
+    return { value: r.value / Math.PI, absError: r.absError / Math.PI };
+  }
+  const g = (v: number) => Math.exp(-v * v) / (1 + (v * v) / c);
+  const whole = integrate(g, 0, V_MAX, opts);
+  const part = integrate(g, 0, Math.min(V_MAX, Math.sqrt(c) / Math.tan(Math.PI / M)), opts);
+  const scale = Math.exp(-c) / (Math.PI * Math.sqrt(c));
+  return { value: scale * (whole.value + part.value), absError: scale * (whole.absError + part.absError) };
 }
 
 /** Uncoded BER and SER on AWGN with Gray mapping at linear Eb/N0, with which formula gave each and whether it is exact (Proakis & Salehi 2008, ch. 4). */

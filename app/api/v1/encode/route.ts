@@ -1,0 +1,4 @@
+import { routes } from "@/lib/api/endpoint";
+import { encode } from "@/lib/api/endpoints/encode";
+
+export const { GET, POST, PUT, PATCH, DELETE } = routes(encode);

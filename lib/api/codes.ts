@@ -1,0 +1,178 @@
+import { createHash } from "node:crypto";
+import { z } from "zod";
+import { formatBits, parseBits, type Bits } from "@/lib/core/bits";
+import { bch, type BchCode } from "@/lib/core/codes/bch";
+import { crcCode, crcPreset, type CrcParams } from "@/lib/core/codes/crc";
+import { golay } from "@/lib/core/codes/golay";
+import { hamming } from "@/lib/core/codes/hamming";
+import { linear } from "@/lib/core/codes/linear";
+import { parity } from "@/lib/core/codes/parity";
+import { repetition } from "@/lib/core/codes/repetition";
+import { bitsToSymbols, rs, type RsCode } from "@/lib/core/codes/rs";
+import type { BlockCode, Word } from "@/lib/core/codes/types";
+import { InputError } from "@/lib/core/errors";
+import { at } from "./endpoint";
+import { MAX_MATRIX_N, type CodeSpec } from "./code-spec";
+import { bitsInput, MAX_WORD_BITS } from "./schemas";
+
+/** A word in a request: bits (any Bits form), symbols for Reed–Solomon, or bytes as text / hex for CRC. */
+export const wordInput = z
+  .union([bitsInput, z.array(z.number().int().min(0).max(65535)).max(MAX_WORD_BITS), z.strictObject({ text: z.string().max(MAX_WORD_BITS / 8) })])
+  .meta({
+    id: "Word",
+    description:
+      "Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). " +
+      "CRC: bits in the order they enter the register, or bytes as { text } (UTF-8) or { hex }, each byte entering most significant bit first (least significant first when refin).",
+  });
+export type WordInput = z.input<typeof wordInput>;
+
+// Building a code can take milliseconds (syndrome tables, generator polynomials): keep recent ones.
+const cache = new Map<string, BlockCode>();
+const CACHE_SIZE = 64;
+
+function cached(key: string, build: () => BlockCode): BlockCode {
+  const hit = cache.get(key);
+  if (hit) {
+    cache.delete(key);
+    cache.set(key, hit);
+    return hit;
+  }
+  const code = build();
+  if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value!);
+  cache.set(key, code);
+  return code;
+}
+
+const big = (v: string | number) => (typeof v === "number" ? BigInt(v) : BigInt(v.startsWith("0x") || v.startsWith("0X") ? v : `0x${v}`));
+const num = (v: string | number | undefined) => (v === undefined ? undefined : Number(big(v)));
+
+/** The CRC parameters a spec names: a catalogue preset with explicit fields overriding it. */
+export function crcParams(spec: Extract<CodeSpec, { family: "crc" }>): CrcParams & { name?: string } {
+  const base = spec.preset !== undefined ? at(["preset"], () => crcPreset(spec.preset!)) : undefined;
+  const changed = ["width", "poly", "init", "refin", "refout", "xorout"].some((f) => spec[f as keyof typeof spec] !== undefined);
+  return {
+    name: base && !changed ? base.name : base ? `${base.name} (modified)` : undefined,
+    width: spec.width ?? base!.width,
+    poly: spec.poly !== undefined ? big(spec.poly) : base!.poly,
+    init: spec.init !== undefined ? big(spec.init) : (base?.init ?? 0n),
+    refin: spec.refin ?? base?.refin ?? false,
+    refout: spec.refout ?? base?.refout ?? false,
+    xorout: spec.xorout !== undefined ? big(spec.xorout) : (base?.xorout ?? 0n),
+  };
+}
+
+/**
+ * The code a spec describes. CRC codes are bit-aligned: their message length `crcMessageBits` comes from
+ * the word at hand. Errors point into the spec (prefix `path`).
+ */
+export function resolveCode(spec: CodeSpec, path: (string | number)[], crcMessageBits?: number): BlockCode {
+  const key = createHash("sha256").update(JSON.stringify(spec)).update(`|${crcMessageBits ?? ""}`).digest("hex");
+  return at(path, () =>
+    cached(key, () => {
+      switch (spec.family) {
+        case "repetition":
+          return repetition(spec.n);
+        case "parity":
+          return parity(spec.n, spec.parity);
+        case "hamming":
+          return hamming(spec.r, spec.extended);
+        case "golay":
+          return golay(spec.extended);
+        case "linear": {
+          const field = spec.generator ? "generator" : "parityCheck";
+          const rows = (spec.generator ?? spec.parityCheck)!.map((r, i) => at([field, i], () => parseBits(r, MAX_MATRIX_N)));
+          return linear(spec.generator ? { generator: rows } : { parityCheck: rows });
+        }
+        case "crc":
+          return crcCode(crcParams(spec), crcMessageBits ?? 0);
+        case "bch":
+          return bch({ m: spec.m, t: spec.t, shorten: spec.shorten, primitivePoly: num(spec.primitivePoly) });
+        case "rs":
+          return rs({ m: spec.m, n: spec.n, k: spec.k, firstRoot: spec.firstRoot, primitivePoly: num(spec.primitivePoly), primitiveElement: spec.primitiveElement });
+      }
+    }),
+  );
+}
+
+/** UTF-8 or hex bytes → the bit stream the CRC register consumes (refin: least significant bit of each byte first). */
+function bytesToStream(bytes: Uint8Array, refin: boolean): Bits {
+  const out = new Uint8Array(bytes.length * 8);
+  for (let i = 0; i < bytes.length; i++) for (let b = 0; b < 8; b++) out[i * 8 + b] = (bytes[i]! >>> (refin ? b : 7 - b)) & 1;
+  return out;
+}
+
+function hexBytes(hex: string): Uint8Array {
+  const digits = hex.replace(/^0x/i, "").replace(/[\s_]/g, "");
+  if (!/^[0-9a-fA-F]*$/.test(digits) || digits.length % 2) throw new InputError("CRC bytes in hex need an even number of hex digits", ["hex"]);
+  return Uint8Array.from(digits.match(/../g) ?? [], (h) => parseInt(h, 16));
+}
+
+/** Read one word of a request for a code family (before the code is resolved, for CRC's length). */
+export function readWord(spec: CodeSpec, input: WordInput): Word {
+  if (spec.family === "crc" && typeof input === "object" && !Array.isArray(input) && ("text" in input || "hex" in input)) {
+    const refin = spec.refin ?? (spec.preset !== undefined ? crcPreset(spec.preset).refin : false);
+    const bytes = "text" in input ? new TextEncoder().encode(input.text) : hexBytes(input.hex);
+    return bytesToStream(bytes, refin);
+  }
+  if (typeof input === "object" && !Array.isArray(input) && "text" in input) throw new InputError("{ text } words are for CRC codes only");
+  if (spec.family === "rs") {
+    if (Array.isArray(input)) return Uint16Array.from(input);
+    return bitsToSymbols(parseBits(input, MAX_WORD_BITS), spec.m);
+  }
+  return parseBits(input as Parameters<typeof parseBits>[0], MAX_WORD_BITS);
+}
+
+/** A word for a response: 0/1 string for binary codes, a symbol array for Reed–Solomon. */
+export const formatWord = (code: BlockCode, w: Word): string | number[] => (code.q === 2 ? formatBits(w as Bits) : Array.from(w));
+
+export const wordOutput = z.union([z.string(), z.array(z.number().int())]).meta({ description: "0/1 string for binary codes; symbols for Reed–Solomon." });
+
+export const codeSummary = z
+  .object({
+    family: z.string(),
+    name: z.string(),
+    n: z.number().int(),
+    k: z.number().int(),
+    q: z.number().int().meta({ description: "Alphabet size: 2, or 2^m symbols for Reed–Solomon." }),
+    rate: z.number(),
+    minimumDistance: z.number().int().optional(),
+    minimumDistanceIsDesigned: z.boolean().optional().meta({ description: "true when only the designed distance is known (a lower bound)." }),
+    systematic: z.boolean(),
+    bitOrder: z.string(),
+    supportsErasures: z.boolean(),
+    generatorPolynomial: z
+      .object({ octal: z.string().optional(), exponents: z.array(z.number().int()).optional(), coefficients: z.array(z.number().int()).optional() })
+      .optional()
+      .meta({ description: "BCH: g(x) in octal and its exponents; Reed–Solomon: coefficients, highest power first." }),
+    crc: z
+      .object({ width: z.number().int(), poly: z.string(), init: z.string(), refin: z.boolean(), refout: z.boolean(), xorout: z.string() })
+      .optional(),
+  })
+  .meta({ id: "CodeSummary" });
+
+const hex = (v: bigint, width: number) => "0x" + v.toString(16).padStart(Math.ceil(width / 4), "0");
+
+export function summarize(code: BlockCode, spec: CodeSpec): z.output<typeof codeSummary> {
+  const gp =
+    code.family === "bch"
+      ? { octal: (code as BchCode).generatorOctal, exponents: (code as BchCode).generatorExponents }
+      : code.family === "reed-solomon"
+        ? { coefficients: (code as RsCode).generator }
+        : undefined;
+  const crc = spec.family === "crc" ? crcParams(spec) : undefined;
+  return {
+    family: spec.family,
+    name: code.name,
+    n: code.n,
+    k: code.k,
+    q: code.q,
+    rate: code.n ? code.k / code.n : 0,
+    ...(code.dmin !== undefined ? { minimumDistance: code.dmin, minimumDistanceIsDesigned: code.dminIsDesigned ?? false } : {}),
+    systematic: code.messagePositions !== undefined,
+    bitOrder: code.bitOrder,
+    supportsErasures: code.supportsErasures,
+    ...(gp ? { generatorPolynomial: gp } : {}),
+    ...(crc ? { crc: { width: crc.width, poly: hex(crc.poly, crc.width), init: hex(crc.init, crc.width), refin: crc.refin, refout: crc.refout, xorout: hex(crc.xorout, crc.width) } } : {}),
+  };
+}
+
