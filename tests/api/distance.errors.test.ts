@@ -129,7 +129,7 @@ describe("POST /distance: missing or conflicting fields", () => {
   });
 
   it("a pair and a codebook together → /codebook", async () => {
-    expectFieldError(await call({ a: "1", b: "0", codebook: ["0", "1"] }), "/codebook", /not both/);
+    expectFieldError(await call({ a: "1", b: "0", codebook: ["0", "1"] }), "/codebook", /one of/);
   });
 
   it.each([

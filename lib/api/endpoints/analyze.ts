@@ -136,6 +136,18 @@ function rsAnalysis(code: BlockCode, spec: CodeSpec, p: number | undefined): Out
   };
 }
 
+/** The analysis of the code a spec describes. */
+export function analyzeSpec(req: { code: CodeSpec; crcMessageBits?: number; p?: number; matrices: boolean }): Out {
+  const code = resolveCode(req.code, ["code"], req.crcMessageBits);
+  return code.q === 2 ? binaryAnalysis(code, req.code, req.p, req.matrices) : rsAnalysis(code, req.code, req.p);
+}
+
+/** Compute units: 1 per started 2^20 enumerated codewords × ⌈n/32⌉ words of work. */
+export function analysisUnits(out: { n: number; k: number; weightDistribution: { method: string } }): number {
+  const dim = out.weightDistribution.method === "mds-formula" ? 0 : Math.min(out.k, out.n - out.k);
+  return Math.max(1, Math.ceil((2 ** dim * Math.ceil(out.n / 32)) / 2 ** 20));
+}
+
 export const analyze = defineEndpoint({
   id: "codes.analyze",
   method: "POST",
@@ -157,12 +169,6 @@ export const analyze = defineEndpoint({
     rs: { summary: "Reed–Solomon (15,11) over GF(16): MDS", value: { code: { family: "rs", m: 4, k: 11 } } },
     crc: { summary: "CRC-8/SMBUS protecting 16-bit messages", value: { code: { family: "crc", preset: "CRC-8/SMBUS" }, crcMessageBits: 16, p: 0.01 } },
   },
-  cost: (_in, out) => {
-    const dim = out.weightDistribution.method === "mds-formula" ? 0 : Math.min(out.k, out.n - out.k);
-    return Math.max(1, Math.ceil((2 ** dim * Math.ceil(out.n / 32)) / 2 ** 20));
-  },
-  handler: (req) => {
-    const code = resolveCode(req.code, ["code"], req.crcMessageBits);
-    return code.q === 2 ? binaryAnalysis(code, req.code, req.p, req.matrices) : rsAnalysis(code, req.code, req.p);
-  },
+  cost: (_in, out) => analysisUnits(out),
+  handler: analyzeSpec,
 });

@@ -2,7 +2,9 @@ import { z } from "zod";
 import { parseBits } from "@/lib/core/bits";
 import { InputError } from "@/lib/core/errors";
 import { codebookDistance, correctingRadius, detectionCapability, hammingBoundHolds, hammingDistance, hammingWeight, isPerfect, log2BigInt, sphereVolume } from "@/lib/core/distance";
+import { codeSpec } from "../code-spec";
 import { at, defineEndpoint } from "../endpoint";
+import { analysisUnits, analyzeSpec } from "./analyze";
 import { bitsInput, MAX_WORD_BITS } from "../schemas";
 
 export const MAX_CODEBOOK_WORDS = 4096;
@@ -19,11 +21,15 @@ const input = z
     codebook: z.array(bitsInput).min(2).max(MAX_CODEBOOK_WORDS).optional().meta({
       description: `Words of one length (2 to ${MAX_CODEBOOK_WORDS} words, at most ${MAX_CODEBOOK_WORD_BITS} bits each, at most ${MAX_CODEBOOK_BITS} bits in all).`,
     }),
+    code: codeSpec.optional().meta({ description: "A code spec: the minimum distance of that code (as POST /codes/analyze finds it)." }),
+    crcMessageBits: z.number().int().min(1).max(4096).optional().meta({ description: "With a CRC `code`: the message length." }),
   })
   .superRefine((v, ctx) => {
     const pair = v.a !== undefined || v.b !== undefined;
-    if (pair && v.codebook !== undefined) ctx.addIssue({ code: "custom", path: ["codebook"], message: "Send either `a` and `b`, or `codebook`, not both." });
-    else if (!pair && v.codebook === undefined) ctx.addIssue({ code: "custom", path: [], message: "Send `a` and `b` (two words), or `codebook` (a list of words)." });
+    const modes = [pair, v.codebook !== undefined, v.code !== undefined].filter(Boolean).length;
+    if (modes > 1) ctx.addIssue({ code: "custom", path: v.code !== undefined ? ["code"] : ["codebook"], message: "Send one of: `a` and `b`, `codebook`, or `code`." });
+    else if (modes === 0) ctx.addIssue({ code: "custom", path: [], message: "Send `a` and `b` (two words), `codebook` (a list of words) or `code` (a code spec)." });
+    else if (v.code?.family === "crc" && v.crcMessageBits === undefined) ctx.addIssue({ code: "custom", path: ["crcMessageBits"], message: "A CRC code needs `crcMessageBits`." });
     else if (pair && v.a === undefined) ctx.addIssue({ code: "custom", path: ["a"], message: "`a` is required with `b`." });
     else if (pair && v.b === undefined) ctx.addIssue({ code: "custom", path: ["b"], message: "`b` is required with `a`." });
   })
@@ -55,7 +61,18 @@ const codebookResult = z.object({
   pairsCompared: z.number().int(),
 });
 
-const output = z.discriminatedUnion("kind", [pairResult, codebookResult]).meta({ id: "DistanceResult" });
+const codeResult = z.object({
+  kind: z.literal("code"),
+  name: z.string(),
+  n: z.number().int(),
+  k: z.number().int(),
+  minimumDistance: z.number().int(),
+  correctingRadius: z.number().int(),
+  detectionCapability: z.number().int(),
+  method: z.enum(["enumeration", "dual", "mds-formula"]).meta({ description: "How the weight distribution that gives dmin was found." }),
+});
+
+const output = z.discriminatedUnion("kind", [pairResult, codebookResult, codeResult]).meta({ id: "DistanceResult" });
 
 export const distance = defineEndpoint({
   id: "distance",
@@ -74,9 +91,18 @@ export const distance = defineEndpoint({
     pair: { summary: "Two bytes written with group separators", value: { a: "1011 0010", b: "1001_0110" } },
     hex: { summary: "Two 16-bit words in hex", value: { a: { hex: "f00d" }, b: { hex: "beef" } } },
     codebook: { summary: "A four-word codebook of length 5", value: { codebook: ["00000", "01101", "10110", "11011"] } },
+    code: { summary: "Minimum distance of the extended Golay code", value: { code: { family: "golay", extended: true } } },
   },
-  cost: (_in, out) => (out.kind === "pair" ? Math.max(1, Math.ceil(out.length / 65536)) : Math.max(1, Math.ceil((out.pairsCompared * Math.ceil(out.length / 32)) / 1e6))),
+  cost: (_in, out) => {
+    if (out.kind === "pair") return Math.max(1, Math.ceil(out.length / 65536));
+    if (out.kind === "codebook") return Math.max(1, Math.ceil((out.pairsCompared * Math.ceil(out.length / 32)) / 1e6));
+    return analysisUnits({ n: out.n, k: out.k, weightDistribution: { method: out.method } });
+  },
   handler: (req) => {
+    if (req.code) {
+      const a = analyzeSpec({ code: req.code, crcMessageBits: req.crcMessageBits, matrices: false });
+      return { kind: "code" as const, name: a.code.name, n: a.n, k: a.k, minimumDistance: a.minimumDistance, correctingRadius: a.correctingRadius, detectionCapability: a.detectionCapability, method: a.weightDistribution.method };
+    }
     if (req.codebook) {
       const words = req.codebook.map((w, i) => at(["codebook", i], () => parseBits(w, MAX_CODEBOOK_WORD_BITS)));
       const n = words[0]!.length;
