@@ -53,7 +53,7 @@ export const CRC_CATALOGUE: readonly CrcPreset[] = Object.freeze([
   preset("CRC-24/OPENPGP", 24, 0x864cfbn, 0xb704cen, false, false, 0x000000n, 0x21cf02n, ["CRC-24"]),
   preset("CRC-31/PHILIPS", 31, 0x04c11db7n, 0x7fffffffn, false, false, 0x7fffffffn, 0x0ce9e46cn),
   preset("CRC-32/ISO-HDLC", 32, 0x04c11db7n, 0xffffffffn, true, true, 0xffffffffn, 0xcbf43926n, ["CRC-32", "CRC-32/ADCCP", "CRC-32/V-42", "CRC-32/XZ", "PKZIP"]),
-  preset("CRC-32/ISCSI", 32, 0x1edc6f41n, 0xffffffffn, true, true, 0xffffffffn, 0xe3069283n, ["CRC-32/BASE91-C", "CRC-32/CASTAGNOLI", "CRC-32/INTERLAKEN", "CRC-32C"]),
+  preset("CRC-32/ISCSI", 32, 0x1edc6f41n, 0xffffffffn, true, true, 0xffffffffn, 0xe3069283n, ["CRC-32/BASE91-C", "CRC-32/CASTAGNOLI", "CRC-32/INTERLAKEN", "CRC-32C", "CRC-32C/ISCSI"]),
   preset("CRC-32/BZIP2", 32, 0x04c11db7n, 0xffffffffn, false, false, 0xffffffffn, 0xfc891918n, ["CRC-32/AAL5", "CRC-32/DECT-B", "B-CRC-32"]),
   preset("CRC-32/MPEG-2", 32, 0x04c11db7n, 0xffffffffn, false, false, 0x00000000n, 0x0376e6e7n),
   preset("CRC-32/CKSUM", 32, 0x04c11db7n, 0x00000000n, false, false, 0xffffffffn, 0x765e7680n, ["CKSUM", "CRC-32/POSIX"]),
