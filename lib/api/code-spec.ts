@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { crcPreset } from "@/lib/core/codes/crc";
+import { InputError } from "@/lib/core/errors";
 import { bitsInput } from "./schemas";
 
 /** Largest codeword length of a code given by a matrix. */
@@ -46,6 +48,17 @@ const linear = z
   })
   .meta({ id: "LinearCode", description: `Any binary linear code from a generator or parity-check matrix (n ≤ ${MAX_MATRIX_N}); syndrome decoding.` });
 
+/** Why a CRC preset name is not in the catalogue, or undefined when it is. */
+function presetProblem(name: string): string | undefined {
+  try {
+    crcPreset(name);
+    return undefined;
+  } catch (e) {
+    if (e instanceof InputError) return e.message;
+    throw e;
+  }
+}
+
 const crc = z
   .strictObject({
     family: z.literal("crc"),
@@ -58,6 +71,10 @@ const crc = z
     xorout: hexOrInt("Value XORed into the final register").optional(),
   })
   .superRefine((v, ctx) => {
+    if (v.preset !== undefined) {
+      const unknown = presetProblem(v.preset);
+      if (unknown) ctx.addIssue({ code: "custom", path: ["preset"], message: unknown });
+    }
     if (v.preset === undefined) {
       for (const f of ["width", "poly"] as const) if (v[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `\`${f}\` is required without a \`preset\`.` });
     }

@@ -46,9 +46,37 @@ function cached(key: string, build: () => BlockCode): BlockCode {
 const big = (v: string | number) => (typeof v === "number" ? BigInt(v) : BigInt(v.startsWith("0x") || v.startsWith("0X") ? v : `0x${v}`));
 const num = (v: string | number | undefined) => (v === undefined ? undefined : Number(big(v)));
 
+/** The catalogue preset of a spec; an unknown name is an error at `preset` itself (the core names its argument `name`). */
+function presetAt(name: string) {
+  try {
+    return crcPreset(name);
+  } catch (e) {
+    if (e instanceof InputError) throw new InputError(e.message, ["preset"]);
+    throw e;
+  }
+}
+
+/**
+ * Run a core encode or decode call on word `i` of the request field `field`. The core names its arguments:
+ * "message" / "received" errors point at `field/i/…`, "erasures" errors at `erasures/i/…`, and any other
+ * named part (e.g. a linear code's `generator` that cannot be decoded) is the code's, at `code/…`.
+ */
+export function atWord<T>(field: "messages" | "words", i: number, fn: () => T): T {
+  try {
+    return fn();
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    const [head, ...rest] = e.path;
+    if (head === undefined) throw new InputError(e.message, [field, i]);
+    if (head === "erasures") throw new InputError(e.message, ["erasures", i, ...rest]);
+    if (head === "message" || head === "received") throw new InputError(e.message, [field, i, ...rest]);
+    throw new InputError(e.message, ["code", ...e.path]);
+  }
+}
+
 /** The CRC parameters a spec names: a catalogue preset with explicit fields overriding it. */
 export function crcParams(spec: Extract<CodeSpec, { family: "crc" }>): CrcParams & { name?: string } {
-  const base = spec.preset !== undefined ? at(["preset"], () => crcPreset(spec.preset!)) : undefined;
+  const base = spec.preset !== undefined ? presetAt(spec.preset) : undefined;
   const changed = ["width", "poly", "init", "refin", "refout", "xorout"].some((f) => spec[f as keyof typeof spec] !== undefined);
   return {
     name: base && !changed ? base.name : base ? `${base.name} (modified)` : undefined,

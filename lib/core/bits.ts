@@ -86,13 +86,9 @@ function parseHex(hex: unknown, length: unknown, maxBits: number): Bits {
   return out;
 }
 
-/**
- * Parses a word: a 0/1 string (space and _ separate groups), a 0/1 number array, or
- * `{ hex, length? }` (optional 0x, case-insensitive, space and _ allowed; `length`, if given,
- * keeps the first `length` bits and must lie in (4·digits − 4, 4·digits]; the low bits it drops
- * from the last digit are ignored). Throws InputError naming the offending position or the limit.
- */
+/** Parses a 0/1 string, 0/1 array or `{ hex, length? }` (hex: optional 0x, any case; length in (4·digits − 4, 4·digits] keeps the first bits) into at most maxBits bits, else InputError naming the position or limit. */
 export function parseBits(input: BitsInput, maxBits: number): Bits {
+  // In hex, space and _ separate groups as in bit strings; low bits of the last digit beyond `length` are ignored.
   const value: unknown = input;
   if (typeof value === "string") return parseBitString(value, maxBits);
   if (Array.isArray(value)) return parseBitArray(value, maxBits);

@@ -27,13 +27,12 @@ export function bscBlockError(n: number, t: number, p: number): Tail {
   return fromLn(logBinomialTails(n, t, p).upper);
 }
 
-/**
- * Post-decoding BER estimate P_b ≈ (1/n)·Σ_{j=t+1}^{n} j·C(n, j)pʲ(1 − p)^{n−j} (Sklar, Digital Communications,
- * 2nd ed., 2001, from memory), computed as p·P(Bin(n − 1, p) ≥ t) through j·C(n, j) = n·C(n − 1, j − 1).
- */
+/** Post-decoding BER estimate P_b ≈ (1/n)·Σ_{j=t+1}^{n} j·C(n, j)pʲ(1 − p)^{n−j} (Sklar, Digital Communications, 2nd ed., 2001, from memory). */
 export function bscPostDecodingBer(n: number, t: number, p: number): Tail {
+  // j·C(n, j) = n·C(n − 1, j − 1) turns the sum into p·P(Bin(n − 1, p) ≥ t), one binomial tail.
   if (!Number.isInteger(n) || n < 1) throw new InputError(`n must be an integer ≥ 1; got ${n}`);
   checkCount(t, "t", Number.MAX_SAFE_INTEGER);
   const { upper } = logBinomialTails(n - 1, t - 1, p);
-  return fromLn(Math.log(p) + upper);
+  // p·e^upper rounds once less than e^{ln p + upper}; p ≤ 1, so it underflows only when the sum does.
+  return { value: p * Math.exp(upper), log10: (Math.log(p) + upper) / Math.LN10 };
 }

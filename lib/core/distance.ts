@@ -37,10 +37,7 @@ export function hammingDistance(
   return { distance, positions, positionsTruncated: distance > positions.length };
 }
 
-/**
- * Minimum distance of a list of equal-length words over all pairs i < j, with the first maxPairs
- * pairs at that distance in lexicographic order; duplicates give distance 0 (MacWilliams & Sloane 1977, ch. 1).
- */
+/** Minimum distance min_{i<j} d(w_i, w_j) of equal-length words with the first maxPairs closest pairs in lexicographic order; duplicates give 0 (MacWilliams & Sloane 1977, ch. 1). */
 export function codebookDistance(
   words: Bits[],
   maxPairs: number,

@@ -58,13 +58,10 @@ function checkEbN0(ebN0: number): void {
 // Beyond v = 27, e^{−v²} < 1e-316 and adds nothing to the integral.
 const V_MAX = 27;
 
-/**
- * Exact M-PSK symbol error rate by Craig's integral P = (1/π)∫₀^{(M−1)π/M} exp(−c/sin²θ) dθ, c = k·Eb/N0·sin²(π/M)
- * (Craig 1991; Proakis & Salehi 2008, ch. 4), by adaptive Gauss–Legendre to relative 1e-13. For c > 1 the
- * substitution v = √c·cot θ turns it into e^{−c}/(π√c)·[∫₀^∞ + ∫₀^{√c·cot(π/M)}] e^{−v²}/(1 + v²/c) dv, whose
- * integrand no longer narrows as c grows and whose factor e^{−c} is taken out.
- */
+/** Exact M-PSK SER by Craig's integral (1/π)∫₀^{(M−1)π/M} exp(−k·Eb/N0·sin²(π/M)/sin²θ) dθ (Craig 1991; Proakis & Salehi 2008, ch. 4), adaptive Gauss–Legendre to relative 1e-13. */
 export function pskSymbolErrorRate(order: number, ebN0: number): { value: number; absError: number } {
+  // For c > 1 the substitution v = √c·cot θ gives e^{−c}/(π√c)·[∫₀^∞ + ∫₀^{√c·cot(π/M)}] e^{−v²}/(1 + v²/c) dv,
+  // whose integrand no longer narrows as c grows and whose factor e^{−c} is taken out before it can underflow.
   const { M, k } = resolve({ scheme: "psk", order });
   checkEbN0(ebN0);
   const c = k * ebN0 * Math.sin(Math.PI / M) ** 2;
@@ -143,10 +140,7 @@ function maximumBer({ kind, M, k }: Scheme): number {
   return 0.5;
 }
 
-/**
- * Linear Eb/N0 at which the uncoded BER of uncodedErrorRates equals targetBer: Eb/N0 = erfcinv(2·BER)² where
- * BER = Q(√(2·Eb/N0)) (BPSK, QPSK, 4-QAM; Proakis & Salehi 2008), otherwise bisection on dB to 1e-10 dB.
- */
+/** Linear Eb/N0 where the uncoded BER equals targetBer: erfcinv(2·BER)² when BER = Q(√(2·Eb/N0)) (BPSK, QPSK, 4-QAM; Proakis & Salehi 2008), else bisection on dB to 1e-10 dB. */
 export function requiredEbN0(mod: Modulation, targetBer: number): number {
   const scheme = resolve(mod);
   const max = maximumBer(scheme);

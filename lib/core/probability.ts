@@ -20,7 +20,7 @@ function stirlerrSeries(n: number): number {
 }
 
 // stirlerr(n) for n < SMALL_LIMIT, where the series is short of double precision. Built downward from
-// n = 64 (series error < 1e-22) with stirlerr(n) = stirlerr(n + 1) + Σ_{m≥1} x^{2m}/(2m + 1), x = 1/(2n + 1),
+// n = 64 (series error < 1e-19) with stirlerr(n) = stirlerr(n + 1) + Σ_{m≥1} x^{2m}/(2m + 1), x = 1/(2n + 1),
 // which is (n + ½)·ln((n + 1)/n) − 1 expanded so that no digits cancel.
 const SMALL_LIMIT = 36;
 const SMALL_STIRLERR = (() => {
@@ -118,11 +118,10 @@ function logTailSum(n: number, p: number, q: number, start: number, step: 1 | -1
   return l0 + Math.log(sum);
 }
 
-/**
- * ln P(X ≤ k) and ln P(X > k) for X ~ Bin(n, p): the tail away from the mode ⌊(n + 1)p⌋ is summed term by
- * term in log space (Loader 2000 terms), and the side holding the mode is its complement via ln(1 − eˣ).
- */
+/** ln P(X ≤ k) and ln P(X > k) for X ~ Bin(n, p) by log-space tail sums of Loader 2000 terms, the complement by ln(1 − eˣ) (Mächler 2012). */
 export function logBinomialTails(n: number, k: number, p: number): { lower: number; upper: number } {
+  // The tail away from the mode ⌊(n + 1)p⌋ is summed outward from its edge; the side holding the mode,
+  // which holds most of the mass, is its complement, so values near 1 keep their small distance to 1.
   checkN(n);
   checkK(k);
   checkP(p);

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { analyzeCode, undetectedErrorProbability } from "@/lib/core/analysis";
+import { analyzeCode, undetectedErrorProbability, weightDistributionMethod, whyNoEnumeration } from "@/lib/core/analysis";
 import { formatBits, type Bits } from "@/lib/core/bits";
 import type { BlockCode } from "@/lib/core/codes/types";
 import { correctingRadius, detectionCapability, log2BigInt } from "@/lib/core/distance";
@@ -71,8 +71,17 @@ type Out = z.output<typeof output>;
 const terms = (w: bigint[]) => w.flatMap((c, weight) => (c > 0n ? [{ weight, count: c.toString() }] : []));
 
 function binaryAnalysis(code: BlockCode, spec: CodeSpec, p: number | undefined, wantMatrices: boolean): Out {
+  // Refuse before building G, and point at the code spec itself (the core's error names its `generator` argument).
+  if (weightDistributionMethod(code.n, code.k) === undefined) {
+    throw new InputError(`${code.name} is too large to analyse: ${whyNoEnumeration(code.n, code.k)}, so neither the code nor its dual can be enumerated for the weight distribution`, ["code"]);
+  }
   const rows = code.generatorRows?.();
-  if (!rows) throw new InputError(`${code.name} is too large to analyse: its generator matrix would have ${code.k}·${code.n} entries`, ["code"]);
+  if (!rows) {
+    if (spec.family === "parity" && spec.parity === "odd") {
+      throw new InputError(`${code.name} is not linear (odd parity words are a coset of the even parity code), so it has no generator matrix to analyse; the even parity code has the same distances`, ["code", "parity"]);
+    }
+    throw new InputError(`${code.name} is too large to analyse: its generator matrix would have ${code.k}·${code.n} entries`, ["code"]);
+  }
   const a = at(["code"], () => analyzeCode(rows));
   const fits = (m: Bits[]) => m.length * code.n <= MAX_MATRIX_ENTRIES;
   const show = wantMatrices && fits(a.systematic.generator) && fits(a.systematic.parityCheck);

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { formatBits } from "@/lib/core/bits";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec } from "../code-spec";
-import { codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
+import { atWord, codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
 import { at, defineEndpoint } from "../endpoint";
 import { MAX_BATCH_BITS, MAX_BATCH_WORDS, resolveBatch } from "./encode";
 
@@ -75,7 +75,7 @@ export const decode = defineEndpoint({
       const code = codes[i]!;
       const erasures = req.erasures?.[i];
       if (erasures?.length && !code.supportsErasures) throw new InputError(`${code.name} does not take erasures`, ["erasures", i]);
-      const r = at(["words", i], () => code.decode(w, erasures?.length ? erasures : undefined));
+      const r = atWord("words", i, () => code.decode(w, erasures?.length ? erasures : undefined));
       return {
         message: formatWord(code, r.message),
         codeword: formatWord(code, r.codeword),

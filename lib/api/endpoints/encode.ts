@@ -3,7 +3,7 @@ import { crcComputeBits } from "@/lib/core/codes/crc";
 import type { BlockCode, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec } from "../code-spec";
-import { codeSummary, crcParams, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
+import { atWord, codeSummary, crcParams, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
 import { at, defineEndpoint } from "../endpoint";
 
 /** Words per call. */
@@ -14,15 +14,16 @@ export const MAX_BATCH_BITS = 1 << 22;
 /** Each word's code (CRC codes take their length from the word) and the batch size check. */
 export function resolveBatch(spec: z.output<typeof codeSpec>, words: Word[], field: string, crcExtra: (width: number) => number): BlockCode[] {
   const width = spec.family === "crc" ? crcParams(spec).width : 0;
-  const codes = words.map((w, i) => (spec.family === "crc" ? at([field, i], () => lengthChecked(spec, w.length - crcExtra(width))) : resolveCode(spec, ["code"])));
+  const codes = words.map((w, i) => {
+    if (spec.family !== "crc") return resolveCode(spec, ["code"]);
+    // The word's length is the word's fault; the CRC's parameters are the spec's (errors at /code/...).
+    const k = w.length - crcExtra(width);
+    if (k < 0) throw new InputError(`the word has ${w.length} bits, fewer than the ${width}-bit CRC`, [field, i]);
+    return resolveCode(spec, ["code"], k);
+  });
   const bits = batchBits(codes);
-  if (bits > MAX_BATCH_BITS) throw new InputError(`the batch has ${bits} codeword bits; one call may have at most ${MAX_BATCH_BITS}`, []);
+  if (bits > MAX_BATCH_BITS) throw new InputError(`the batch has ${bits} codeword bits; one call may have at most ${MAX_BATCH_BITS}`, [field]);
   return codes;
-}
-
-function lengthChecked(spec: z.output<typeof codeSpec>, k: number): BlockCode {
-  if (k < 0) throw new InputError("the word is shorter than the CRC");
-  return resolveCode(spec, ["code"], k);
 }
 
 export const batchBits = (codes: BlockCode[]) => codes.reduce((s, c) => s + c.n * Math.log2(c.q), 0);
@@ -74,7 +75,7 @@ export const encode = defineEndpoint({
     const codes = resolveBatch(req.code, messages, "messages", () => 0);
     const codewords = messages.map((m, i) => {
       const code = codes[i]!;
-      const cw = at(["messages", i], () => code.encode(m));
+      const cw = atWord("messages", i, () => code.encode(m));
       return {
         codeword: formatWord(code, cw),
         ...(req.code.family === "crc" ? { crc: "0x" + crcComputeBits(crcParams(req.code), m as Uint8Array).toString(16).padStart(Math.ceil((code.n - code.k) / 4), "0") } : {}),

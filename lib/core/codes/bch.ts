@@ -4,6 +4,7 @@ import { checkBinaryWord, rejectErasures } from "../gf2";
 import { type GaloisField, galoisField } from "../gfpm";
 import * as poly2 from "../poly2";
 import * as polym from "../polym";
+import { checkBinaryBatch, firstNonBit } from "./hamming";
 import type { BlockCode, DecodeResult, Word } from "./types";
 
 /** Parameters of a binary narrow-sense primitive BCH code. */
@@ -39,6 +40,7 @@ export interface BchCode extends BlockCode {
   /** Exponents of the terms of g(x), highest first. */
   generatorExponents: number[];
   encode(message: Word): Bits;
+  encodeBatch(messages: Word, count: number): Bits;
 }
 
 const BIT_ORDER =
@@ -79,6 +81,10 @@ class Bch implements BchCode {
   private readonly words: number;
   /** table[v·words + w]: word w of v(x)·x^r mod g(x) for a byte v, left-aligned (bit 31 of word 0 = coefficient of x^(r−1)). */
   private readonly table: Uint32Array;
+  /** The division register, reused by every call (calls never overlap). */
+  private readonly reg: Uint32Array;
+  /** Syndromes S_1..S_2t of the word being decoded, reused likewise. */
+  private readonly sums: Uint16Array;
 
   constructor(
     private readonly field: GaloisField,
@@ -101,6 +107,8 @@ class Bch implements BchCode {
     this.generatorExponents = poly2.exponents(generator);
     this.words = Math.ceil(this.r / 32);
     this.table = this.byteTable();
+    this.reg = new Uint32Array(this.words);
+    this.sums = new Uint16Array(2 * this.t);
     if (this.k * this.n <= MAX_GENERATOR_ENTRIES) this.generatorRows = () => this.systematicRows();
   }
 
@@ -136,34 +144,54 @@ class Bch implements BchCode {
   }
 
   /**
-   * x^r·u(x) mod g(x) for the first k bits u of a word, a byte at a time: with R = R_hi·x^(r−8) + R_lo,
-   * (R·x^8 + B·x^r) mod g = R_lo·x^8 + ((R_hi + B)·x^r mod g), one table row per byte (Lin & Costello 2004, ch. 5).
+   * x^r·u(x) mod g(x) into `reg` for the k bits u at src[from..], copied to out[to..] on the way, a byte at a
+   * time: with R = R_hi·x^(r−8) + R_lo, (R·x^8 + B·x^r) mod g = R_lo·x^8 + ((R_hi + B)·x^r mod g), one table
+   * row per byte (Lin & Costello 2004, ch. 5). Returns the OR of the bits read, > 1 for a non-bit.
    */
-  private remainder(word: Bits): Uint32Array {
-    const { words, table } = this;
-    const reg = new Uint32Array(words);
-    // Leading zero bits leave a zero register unchanged, so pad the front to whole bytes.
-    let count = (8 - (this.k & 7)) & 7;
-    let byte = 0;
-    for (let i = 0; i < this.k; i++) {
-      byte = (byte << 1) | word[i]!;
-      if (++count < 8) continue;
-      const row = ((reg[0]! >>> 24) ^ byte) * words;
+  private divide(src: Bits, from: number, out: Bits, to: number): number {
+    const { words, table, reg, k } = this;
+    reg.fill(0);
+    let seen = 0;
+    // Leading zero bits leave a zero register unchanged, so the first byte takes the k mod 8 leftover bits.
+    for (let i = 0, end = k & 7 || 8; i < k; end += 8) {
+      let byte = 0;
+      for (; i < end; i++) {
+        const b = src[from + i]!;
+        out[to + i] = b;
+        seen |= b;
+        byte = (byte << 1) | b;
+      }
+      // The mask keeps a non-bit inside the table; such input is rejected by the caller.
+      const row = (((reg[0]! >>> 24) ^ byte) & 255) * words;
       for (let w = 0; w < words - 1; w++) reg[w] = ((reg[w]! << 8) | (reg[w + 1]! >>> 24)) ^ table[row + w]!;
       reg[words - 1] = (reg[words - 1]! << 8) ^ table[row + words - 1]!;
-      count = 0;
-      byte = 0;
     }
-    return reg;
+    return seen;
+  }
+
+  /** Writes the systematic codeword of the k bits at src[from..] to out[to..]; returns the OR of the bits read. */
+  private encodeAt(src: Bits, from: number, out: Bits, to: number): number {
+    const seen = this.divide(src, from, out, to);
+    const { reg, r, k } = this;
+    for (let j = 0; j < r; j++) out[to + k + j] = (reg[j >>> 5]! >>> (31 - (j & 31))) & 1;
+    return seen;
   }
 
   /** Systematic encoding c(x) = x^(n−k)·m(x) + (x^(n−k)·m(x) mod g(x)) with a byte-wise division circuit (Lin & Costello 2004, ch. 5). */
   encode(message: Word): Bits {
-    const u = checkBinaryWord(message, this.k, "message", this.name);
-    const reg = this.remainder(u);
     const out = new Uint8Array(this.n);
-    out.set(u);
-    for (let j = 0; j < this.r; j++) out[this.k + j] = (reg[j >>> 5]! >>> (31 - (j & 31))) & 1;
+    this.encodeAt(checkBinaryWord(message, this.k, "message", this.name), 0, out, 0);
+    return out;
+  }
+
+  /** encode for `count` messages stored back to back, by the same byte-wise division circuit, validated once. */
+  encodeBatch(messages: Word, count: number): Bits {
+    const { k, n } = this;
+    const m = checkBinaryBatch(messages, count, k, this.name);
+    const out = new Uint8Array(count * n);
+    let seen = 0;
+    for (let i = 0; i < count; i++) seen |= this.encodeAt(m, i * k, out, i * n);
+    if (seen > 1) throw firstNonBit(m, k);
     return out;
   }
 
@@ -173,26 +201,36 @@ class Bch implements BchCode {
    * or Λ does not have deg Λ distinct roots among the code's positions (Lin & Costello 2004, ch. 6).
    */
   decode(received: Word, erasures?: number[]): DecodeResult {
-    const w = checkBinaryWord(received, this.n, "received", this.name);
-    rejectErasures(erasures, this.name);
-    const { field, r, k, n, t } = this;
-    const reg = this.remainder(w);
+    const { field, r, k, n, t, reg } = this;
+    const w = received instanceof Uint8Array && received.length === n ? received : checkBinaryWord(received, n, "received", this.name);
+    const codeword = new Uint8Array(n);
+    let seen = this.divide(w, 0, codeword, 0);
     // r(x) mod g(x) = (x^r·u(x) mod g(x)) + received parity, for u the first k bits.
     const syndrome = new Uint8Array(r);
-    let nonzero = false;
+    let nonzero = 0;
     for (let j = 0; j < r; j++) {
-      syndrome[j] = ((reg[j >>> 5]! >>> (31 - (j & 31))) & 1) ^ w[k + j]!;
-      if (syndrome[j]) nonzero = true;
+      const b = w[k + j]!;
+      codeword[k + j] = b;
+      seen |= b;
+      const bit = ((reg[j >>> 5]! >>> (31 - (j & 31))) & 1) ^ b;
+      syndrome[j] = bit;
+      nonzero |= bit;
     }
-    const codeword = w.slice();
-    if (!nonzero) return outcome(codeword, k, syndrome, false, []);
+    if (seen > 1) checkBinaryWord(w, n, "received", this.name);
+    rejectErasures(erasures, this.name);
+    if (nonzero === 0) return outcome(codeword, k, syndrome, false, []);
 
     const { expTable: exp, order } = field;
     // S[j − 1] = S_j; g(α^j) = 0 for j ≤ 2t, so the remainder gives the same values as r(x).
-    const s = new Uint16Array(2 * t);
+    // Remainder bit i is the coefficient of x^(r−1−i), so its term is α^((r−1−i)·j), stepped down by j.
+    const s = this.sums;
     for (let j = 1; j < 2 * t; j += 2) {
       let v = 0;
-      for (let i = 0; i < r; i++) if (syndrome[i]) v ^= exp[((r - 1 - i) * j) % order]!;
+      for (let i = 0, e = ((r - 1) * j) % order; i < r; i++) {
+        if (syndrome[i]) v ^= exp[e]!;
+        e -= j;
+        if (e < 0) e += order;
+      }
       s[j - 1] = v;
     }
     for (let j = 2; j <= 2 * t; j += 2) s[j - 1] = field.mul(s[j / 2 - 1]!, s[j / 2 - 1]!);

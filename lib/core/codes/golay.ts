@@ -1,6 +1,7 @@
-import type { Bits } from "../bits";
+import { type Bits, popcount32 } from "../bits";
 import { checkBinaryWord, rejectErasures } from "../gf2";
 import { InputError } from "../errors";
+import { checkBinaryBatch, firstNonBit } from "./hamming";
 import type { BlockCode, DecodeResult, Word } from "./types";
 
 /** g(x) = x^11 + x^10 + x^6 + x^5 + x^4 + x^2 + 1 (octal 6165; its reciprocal, octal 5343, gives an equivalent code), bit i = coefficient of x^i. */
@@ -11,10 +12,10 @@ interface Tables {
   n: number;
   /** H column of each position as an integer whose most significant bit is the first syndrome bit. */
   column: Int32Array;
-  /** The (23,12) columns: x^(22−p) mod g(x). */
-  column23: Int32Array;
   /** Coset leader per syndrome as a bit mask (bit p = position p), −1 where the leader has weight 4. */
   leader: Int32Array;
+  /** parity[v]: the n − 12 bits after message v (bit 11 of v = position 0), the first in the most significant place. */
+  parity: Int32Array;
 }
 
 const cache = new Map<boolean, Tables>();
@@ -42,7 +43,15 @@ function tables(extended: boolean): Tables {
       for (let c = b + 1; c < n; c++) leader[column[a]! ^ column[b]! ^ column[c]!] = (1 << a) | (1 << b) | (1 << c);
     }
   }
-  const t = { n, column, column23, leader };
+  // The parity bits are linear in the message: each entry is an earlier one XOR the share of v's lowest set bit.
+  const parity = new Int32Array(1 << K);
+  for (let v = 1; v < 1 << K; v++) {
+    const p = K - 1 - (31 - Math.clz32(v & -v));
+    const rem = column23[p]!;
+    // Extended: append the overall parity, 1 for the message bit ⊕ the parity of its remainder.
+    parity[v] = parity[v & (v - 1)]! ^ (extended ? (rem << 1) | (1 ^ (popcount32(rem) & 1)) : rem);
+  }
+  const t = { n, column, leader, parity };
   cache.set(extended, t);
   return t;
 }
@@ -53,26 +62,37 @@ function tables(extended: boolean): Tables {
  * encoding with g(x) = x^11 + x^10 + x^6 + x^5 + x^4 + x^2 + 1: bit p of the 23-bit codeword is the
  * coefficient of x^(22−p), so the 12 message bits come first and the 11 parity bits, the remainder of
  * m(x)·x^11 divided by g(x), follow highest degree first; (24,12) appends the overall parity bit.
- * Decoding by syndrome table (2^11 or 2^12 entries) corrects up to 3 errors; in (24,12) a syndrome of
+ * Encoding looks the parity bits up in a 4096-entry table. Decoding by syndrome table (2^11 or 2^12 entries) corrects up to 3 errors; in (24,12) a syndrome of
  * a weight-4 coset (6 equally near codewords) is reported as failure and nothing is changed.
  */
 export function golay(extended = false): BlockCode {
   if (typeof extended !== "boolean") throw new InputError("extended must be true or false", ["extended"]);
-  const { n, column, column23, leader } = tables(extended);
+  const { n, column, leader, parity } = tables(extended);
   const r = n - K;
   const name = extended ? "extended Golay (24,12)" : "Golay (23,12)";
-  const syndromeOf = (w: Bits, cols: Int32Array): number => {
+  const syndromeOf = (w: Bits): number => {
     let s = 0;
-    for (let p = 0; p < cols.length; p++) if (w[p]) s ^= cols[p]!;
+    for (let p = 0; p < n; p++) if (w[p]) s ^= column[p]!;
     return s;
+  };
+  /** Writes the codeword of the 12 bits at src[from..] to out[to..] from the parity table; returns the OR of the message entries, > 1 for a non-bit. */
+  const encodeAt = (src: Bits, from: number, out: Bits, to: number): number => {
+    let v = 0;
+    let seen = 0;
+    for (let p = 0; p < K; p++) {
+      const b = src[from + p]!;
+      out[to + p] = b;
+      seen |= b;
+      v = (v << 1) | b;
+    }
+    // The mask keeps a non-bit inside the table; such a batch is rejected afterwards.
+    const bits = parity[v & ((1 << K) - 1)]!;
+    for (let j = 0; j < r; j++) out[to + K + j] = (bits >>> (r - 1 - j)) & 1;
+    return seen;
   };
   const encode = (message: Word): Bits => {
     const c = new Uint8Array(n);
-    c.set(checkBinaryWord(message, K, "message", name));
-    // Remainder of m(x)·x^11 mod g(x); the (23,12) parity positions' columns are unit vectors, so writing it there zeroes the syndrome.
-    const rem = syndromeOf(c, column23);
-    for (let j = 0; j < 11; j++) c[K + j] = (rem >>> (10 - j)) & 1;
-    if (extended) c[23] = c.reduce((x, b) => x ^ b, 0);
+    encodeAt(checkBinaryWord(message, K, "message", name), 0, c, 0);
     return c;
   };
   return {
@@ -89,10 +109,18 @@ export function golay(extended = false): BlockCode {
       (extended ? "; then the overall parity bit in position 23." : "."),
     supportsErasures: false,
     encode,
+    encodeBatch(messages: Word, count: number): Bits {
+      const m = checkBinaryBatch(messages, count, K, name);
+      const out = new Uint8Array(count * n);
+      let seen = 0;
+      for (let i = 0; i < count; i++) seen |= encodeAt(m, i * K, out, i * n);
+      if (seen > 1) throw firstNonBit(m, K);
+      return out;
+    },
     decode(received: Word, erasures?: number[]): DecodeResult {
       const w = checkBinaryWord(received, n, "received", name);
       rejectErasures(erasures, name);
-      const s = syndromeOf(w, column);
+      const s = syndromeOf(w);
       const syndrome = new Uint8Array(r);
       for (let j = 0; j < r; j++) syndrome[j] = (s >>> (r - 1 - j)) & 1;
       const e = leader[s]!;

@@ -35,6 +35,7 @@ export interface RsCode extends BlockCode {
   /** Coefficients of g(x) = ∏_{i<n−k} (x − β^(b+i)), highest power first (monic: the first is 1). */
   generator: number[];
   encode(message: Word): Uint16Array;
+  encodeBatch(messages: Word, count: number): Uint16Array;
 }
 
 const BIT_ORDER =
@@ -110,28 +111,60 @@ class ReedSolomon implements RsCode {
     this.feedbackLogs = Int32Array.from(this.generator.slice(1), (c) => (c === 0 ? -1 : field.logTable[c]!));
   }
 
-  /** Systematic encoding c(x) = x^(n−k)·m(x) + (x^(n−k)·m(x) mod g(x)) by a symbol-wise division circuit with log/exp tables (Lin & Costello 2004, ch. 7). */
-  encode(message: Word): Uint16Array {
-    checkSymbols(message, this.k, this.q, "message", this.name);
+  /**
+   * Writes the systematic codeword of the k symbols at src[from..] to out[to..], whose parity part must be zero:
+   * a symbol-wise division circuit with log/exp tables, the register kept in out[to+k..to+n), highest power
+   * first (Lin & Costello 2004, ch. 7). Returns the OR of the symbols read, ≥ q for one out of range.
+   */
+  private encodeAt(src: Word, from: number, out: Uint16Array, to: number): number {
     const { r, k, feedbackLogs } = this;
-    const { expTable: exp, logTable: log } = this.field;
-    const out = new Uint16Array(this.n);
-    out.set(message);
-    // out[k..n) is the register, highest power first.
+    const { expTable: exp, logTable: log, order } = this.field;
+    const reg = to + k;
+    const last = reg + r - 1;
+    let seen = 0;
     for (let i = 0; i < k; i++) {
-      const feedback = message[i]! ^ out[k]!;
+      const u = src[from + i]!;
+      out[to + i] = u;
+      seen |= u;
+      // The mask keeps a symbol out of range inside the log table; such input is rejected by the caller.
+      const feedback = (u ^ out[reg]!) & order;
       if (feedback === 0) {
-        out.copyWithin(k, k + 1);
-        out[k + r - 1] = 0;
+        out.copyWithin(reg, reg + 1, last + 1);
+        out[last] = 0;
         continue;
       }
       const lf = log[feedback]!;
-      for (let j = 0; j < r - 1; j++) {
-        const lg = feedbackLogs[j]!;
-        out[k + j] = out[k + j + 1]! ^ (lg < 0 ? 0 : exp[lf + lg]!);
+      for (let j = reg; j < last; j++) {
+        const lg = feedbackLogs[j - reg]!;
+        out[j] = out[j + 1]! ^ (lg < 0 ? 0 : exp[lf + lg]!);
       }
       const lg = feedbackLogs[r - 1]!;
-      out[k + r - 1] = lg < 0 ? 0 : exp[lf + lg]!;
+      out[last] = lg < 0 ? 0 : exp[lf + lg]!;
+    }
+    return seen;
+  }
+
+  /** Systematic encoding c(x) = x^(n−k)·m(x) + (x^(n−k)·m(x) mod g(x)) by a symbol-wise division circuit with log/exp tables (Lin & Costello 2004, ch. 7). */
+  encode(message: Word): Uint16Array {
+    checkSymbols(message, this.k, this.q, "message", this.name);
+    const out = new Uint16Array(this.n);
+    this.encodeAt(message, 0, out, 0);
+    return out;
+  }
+
+  /** encode for `count` messages stored back to back, by the same division circuit, validated once. */
+  encodeBatch(messages: Word, count: number): Uint16Array {
+    const { k, n, q } = this;
+    if (!Number.isSafeInteger(count) || count < 0) throw new InputError(`count must be a non-negative integer; got ${count}`, ["count"]);
+    if (messages.length !== count * k) throw new InputError(`messages has ${messages.length} symbols; ${count} messages of ${this.name} take ${count * k}`, ["messages"]);
+    const out = new Uint16Array(count * n);
+    let seen = 0;
+    for (let i = 0; i < count; i++) seen |= this.encodeAt(messages, i * k, out, i * n);
+    // q is a power of two, so the OR of the symbols reaches q exactly when one of them does.
+    if (seen >= q) {
+      const f = messages.findIndex((v) => v >= q);
+      const j = Math.floor(f / k);
+      throw new InputError(`message ${j} symbol ${f - j * k} is ${messages[f]}; symbols of GF(${q}) are 0 to ${q - 1}`, ["messages", j, f - j * k]);
     }
     return out;
   }

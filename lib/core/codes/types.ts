@@ -39,6 +39,11 @@ export interface BlockCode {
   /** Bit-order note shown in the API docs. */
   bitOrder: string;
   encode(message: Word): Word;
+  /**
+   * Optional fast path: `count` messages stored back to back (count·k entries) → their count·n codeword
+   * entries, the same as `encode` one message at a time, with the buffer validated once.
+   */
+  encodeBatch?(messages: Word, count: number): Word;
   /** `erasures`: 0-based positions whose value is unknown, for families that support them. */
   decode(received: Word, erasures?: number[]): DecodeResult;
   /** Families that accept erasures. */

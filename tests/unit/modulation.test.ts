@@ -1,0 +1,194 @@
+import erfc from "@stdlib/math-base-special-erfc";
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { InputError } from "@/lib/core/errors";
+import { type Modulation, pskSymbolErrorRate, qfunc, qinv, requiredEbN0, uncodedErrorRates } from "@/lib/core/modulation";
+import { bisect } from "@/lib/core/numeric";
+import ref from "../fixtures/scipy-reference.json";
+
+const SCIPY = `scipy ${ref.versions.scipy} fixture`;
+const db = (x: number) => 10 * Math.log10(x);
+const lin = (d: number) => Math.pow(10, d / 10);
+const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+
+function modOf(scheme: string, order?: number): Modulation {
+  if (scheme === "bpsk" || scheme === "qpsk") return { scheme };
+  if (scheme === "psk" || scheme === "qam") return { scheme, order: order! };
+  throw new Error(scheme);
+}
+
+describe("Q function", () => {
+  it("Q(0) = ½ and Q(1.96) ≈ 0.025 (standard normal table, common practice)", () => {
+    expect(qfunc(0)).toBe(0.5);
+    expect(qfunc(1.96)).toBeCloseTo(0.025, 4);
+    expect(qinv(0.025)).toBeCloseTo(1.96, 2);
+    expect(qinv(0.5)).toBe(0);
+    expect(() => qinv(1.5)).toThrow(InputError);
+  });
+
+  it("qinv inverts qfunc (property; x ≥ −1, where Q is not within rounding of 1)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: -1, max: 30, noNaN: true }), (x) => {
+        expect(Math.abs(qinv(qfunc(x)) - x)).toBeLessThan(1e-9 * Math.max(1, Math.abs(x)));
+      }),
+    );
+  });
+});
+
+describe("BPSK / QPSK", () => {
+  it("required Eb/N0: 1e-3 at 6.79 dB, 1e-5 at 9.59 dB, 1e-6 at 10.53 dB (REFERENCES.md, Proakis; table rounded to 0.01 dB)", () => {
+    for (const scheme of ["bpsk", "qpsk"] as const) {
+      expect(Math.abs(db(requiredEbN0({ scheme }, 1e-3)) - 6.79)).toBeLessThan(0.01);
+      expect(Math.abs(db(requiredEbN0({ scheme }, 1e-5)) - 9.59)).toBeLessThan(0.01);
+      expect(Math.abs(db(requiredEbN0({ scheme }, 1e-6)) - 10.53)).toBeLessThan(0.01);
+    }
+  });
+
+  it("BER = ½·erfc(√(Eb/N0)) (REFERENCES.md formula, evaluated with @stdlib erfc)", () => {
+    for (const d of [-10, 0, 4, 9.6, 15]) {
+      const g = lin(d);
+      const r = uncodedErrorRates({ scheme: "bpsk" }, g);
+      // 1e-13: the arguments √(2g)/√2 and √g differ by rounding, which erfc amplifies by 2x².
+      expect(rel(r.ber, 0.5 * erfc(Math.sqrt(g)))).toBeLessThan(1e-13);
+      expect(r.berExact && r.serExact).toBe(true);
+      const q = uncodedErrorRates({ scheme: "qpsk" }, g);
+      expect(q.ber).toBe(r.ber);
+      // QPSK SER = 1 − (1 − p)², two independent BPSK rails (Proakis & Salehi); that form cancels below p ≈ 1e-3.
+      if (r.ber > 1e-3) expect(rel(q.ser, 1 - (1 - r.ber) ** 2)).toBeLessThan(1e-12);
+    }
+  });
+
+  it(`exact inverse matches scipy.special.erfcinv (${SCIPY}) within 1e-9 dB`, () => {
+    for (const r of ref.requiredEbN0.filter((x) => x.scheme === "bpsk")) {
+      expect(Math.abs(db(requiredEbN0({ scheme: "bpsk" }, r.targetBer)) - r.ebN0Db)).toBeLessThan(1e-9);
+    }
+  });
+
+  it("exact inverse agrees with bisection on the BER curve within 1e-9 dB", () => {
+    for (const scheme of ["bpsk", "qpsk"] as const)
+      for (const target of [0.3, 1e-2, 1e-5, 1e-9, 1e-15, 1e-100]) {
+        const f = (d: number) => Math.log(uncodedErrorRates({ scheme }, lin(d)).ber / target);
+        const byBisection = bisect(f, -40, 80, 1e-12, 200);
+        expect(Math.abs(db(requiredEbN0({ scheme }, target)) - byBisection)).toBeLessThan(1e-9);
+      }
+  });
+});
+
+describe("M-PSK", () => {
+  it(`SER by Craig's integral matches scipy.integrate.quad (${SCIPY}) within relative 1e-12`, () => {
+    // Measured max 2.6e-14.
+    for (const p of ref.pskSer) {
+      const r = uncodedErrorRates({ scheme: "psk", order: p.order }, lin(p.ebN0Db));
+      expect(rel(r.ser, p.ser)).toBeLessThan(1e-12);
+      expect(rel(pskSymbolErrorRate(p.order, lin(p.ebN0Db)).value, p.ser)).toBeLessThan(1e-12);
+    }
+  });
+
+  it("Craig's integral for M = 2 and 4 equals the closed forms Q(√(2γ)) and 2Q − Q² (Proakis & Salehi)", () => {
+    for (const g of [0, 0.01, 0.5, 1, 3, 10, 100, 300]) {
+      const q = 0.5 * erfc(Math.sqrt(g));
+      const two = pskSymbolErrorRate(2, g);
+      const four = pskSymbolErrorRate(4, g);
+      expect(rel(two.value, q)).toBeLessThan(1e-12);
+      expect(rel(four.value, q * (2 - q))).toBeLessThan(1e-12);
+      expect(two.absError).toBeLessThanOrEqual(1e-12 * two.value);
+    }
+  });
+
+  it("SER at Eb/N0 = 0 is (M − 1)/M, a uniform guess", () => {
+    for (const M of [8, 16, 1024]) expect(rel(pskSymbolErrorRate(M, 0).value, (M - 1) / M)).toBeLessThan(1e-14);
+  });
+
+  it("BER is marked as the SER/k Gray approximation; orders 2 and 4 route to the exact forms", () => {
+    const r = uncodedErrorRates({ scheme: "psk", order: 8 }, 10);
+    expect(r.berExact).toBe(false);
+    expect(r.serExact).toBe(true);
+    expect(r.berMethod).toMatch(/^approximation/);
+    expect(rel(r.ber, r.ser / 3)).toBeLessThan(1e-15);
+    expect(uncodedErrorRates({ scheme: "psk", order: 2 }, 3)).toEqual(uncodedErrorRates({ scheme: "bpsk" }, 3));
+    expect(uncodedErrorRates({ scheme: "psk", order: 4 }, 3)).toEqual(uncodedErrorRates({ scheme: "qpsk" }, 3));
+  });
+});
+
+describe("square M-QAM", () => {
+  it(`SER and BER match the formulas evaluated with scipy.special.erfc (${SCIPY}) within relative 1e-12`, () => {
+    // Measured max 3.4e-14.
+    for (const q of ref.qam) {
+      const r = uncodedErrorRates({ scheme: "qam", order: q.order }, lin(q.ebN0Db));
+      if (q.ser > 0) expect(rel(r.ser, q.ser)).toBeLessThan(1e-12);
+      if (q.ber > 0) expect(rel(r.ber, q.ber)).toBeLessThan(1e-12);
+    }
+  });
+
+  it("4-QAM is QPSK (Proakis & Salehi): same exact BER and SER", () => {
+    for (const g of [0.1, 1, 10]) {
+      const a = uncodedErrorRates({ scheme: "qam", order: 4 }, g);
+      const b = uncodedErrorRates({ scheme: "qpsk" }, g);
+      expect(rel(a.ber, b.ber)).toBeLessThan(1e-15);
+      expect(rel(a.ser, b.ser)).toBeLessThan(1e-15);
+      expect(a.berExact).toBe(true);
+    }
+    expect(uncodedErrorRates({ scheme: "qam", order: 16 }, 10).berExact).toBe(false);
+  });
+});
+
+describe("required Eb/N0 by bisection", () => {
+  it(`matches scipy.optimize.brentq on the same BER formulas (${SCIPY}) within 1e-9 dB`, () => {
+    // Measured max 4.5e-11 dB.
+    for (const r of ref.requiredEbN0.filter((x) => x.scheme !== "bpsk")) {
+      const got = db(requiredEbN0(modOf(r.scheme, r.order), r.targetBer));
+      expect(Math.abs(got - r.ebN0Db)).toBeLessThan(1e-9);
+    }
+  });
+
+  it("targets just below the maximum BER need Eb/N0 below −20 dB and are still found", () => {
+    const mod: Modulation = { scheme: "psk", order: 8 };
+    const target = 0.29; // maximum is 7/24 ≈ 0.2917
+    const g = requiredEbN0(mod, target);
+    expect(db(g)).toBeLessThan(-20);
+    expect(rel(uncodedErrorRates(mod, g).ber, target)).toBeLessThan(1e-9);
+  });
+
+  it("BER falls as Eb/N0 rises for every scheme (property)", () => {
+    const mods: Modulation[] = [{ scheme: "bpsk" }, { scheme: "psk", order: 16 }, { scheme: "qam", order: 64 }, { scheme: "qam", order: 4096 }];
+    fc.assert(
+      fc.property(fc.constantFrom(...mods), fc.double({ min: -10, max: 30, noNaN: true }), (mod, d) => {
+        expect(uncodedErrorRates(mod, lin(d + 0.5)).ber).toBeLessThanOrEqual(uncodedErrorRates(mod, lin(d)).ber);
+      }),
+    );
+  });
+
+  it("refuses targets at or above the scheme's maximum, and 0", () => {
+    expect(() => requiredEbN0({ scheme: "bpsk" }, 0.5)).toThrow(/never exceeds 0.5/);
+    expect(() => requiredEbN0({ scheme: "bpsk" }, 0.7)).toThrow(InputError);
+    expect(() => requiredEbN0({ scheme: "bpsk" }, 0)).toThrow(InputError);
+    expect(() => requiredEbN0({ scheme: "bpsk" }, Number.NaN)).toThrow(InputError);
+    // 8-PSK: (M − 1)/(M·k) = 7/24; 16-QAM: (2/k)(1 − 1/√M) = 3/8.
+    expect(() => requiredEbN0({ scheme: "psk", order: 8 }, 0.3)).toThrow(/never exceeds 0.29166/);
+    expect(() => requiredEbN0({ scheme: "qam", order: 16 }, 0.375)).toThrow(/never exceeds 0.375/);
+  });
+
+  it("very small targets stay inside the search range (1e-300 for 1024-PSK)", () => {
+    const g = requiredEbN0({ scheme: "psk", order: 1024 }, 1e-300);
+    expect(db(g)).toBeLessThan(80);
+    expect(rel(uncodedErrorRates({ scheme: "psk", order: 1024 }, g).ber, 1e-300)).toBeLessThan(1e-8);
+  });
+});
+
+describe("modulation validation", () => {
+  it("rejects unsupported orders and schemes", () => {
+    expect(() => uncodedErrorRates({ scheme: "psk", order: 3 }, 1)).toThrow(InputError);
+    expect(() => uncodedErrorRates({ scheme: "psk", order: 1 }, 1)).toThrow(InputError);
+    expect(() => uncodedErrorRates({ scheme: "psk", order: 2048 }, 1)).toThrow(/from 2 to 1024/);
+    expect(() => uncodedErrorRates({ scheme: "qam", order: 32 }, 1)).toThrow(/square/);
+    expect(() => uncodedErrorRates({ scheme: "qam", order: 2 }, 1)).toThrow(InputError);
+    expect(() => uncodedErrorRates({ scheme: "fsk" } as unknown as Modulation, 1)).toThrow(InputError);
+    expect(() => uncodedErrorRates({ scheme: "bpsk" }, -1)).toThrow(InputError);
+    expect(() => uncodedErrorRates({ scheme: "bpsk" }, Number.POSITIVE_INFINITY)).toThrow(InputError);
+    try {
+      uncodedErrorRates({ scheme: "qam", order: 32 }, 1);
+    } catch (e) {
+      expect((e as InputError).path).toEqual(["order"]);
+    }
+  });
+});
