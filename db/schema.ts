@@ -16,6 +16,30 @@ export interface UserTable {
   email: string;
   name: string | null;
   created_at: Timestamp;
+  /** bcrypt hash, null for users who only sign in by e-mail link. */
+  password_hash: ColumnType<string | null, string | null | undefined, string | null>;
+  email_verified: ColumnType<Timestamp | null, Timestamp | null | undefined, Timestamp | null>;
+}
+
+export interface VerificationTokenTable {
+  identifier: string;
+  /** SHA-256 of the token sent by e-mail; the token itself is never stored. */
+  token_hash: string;
+  purpose: "sign-in" | "password-reset";
+  expires_at: Timestamp;
+}
+
+export interface InvitationTable {
+  id: Generated<number>;
+  org_id: number;
+  email: string;
+  role: Role;
+  token_hash: string;
+  invited_by_user_id: number | null;
+  created_at: Timestamp;
+  expires_at: Timestamp;
+  accepted_at: Timestamp | null;
+  revoked_at: Timestamp | null;
 }
 
 export type Role = "owner" | "developer" | "billing";
@@ -46,6 +70,8 @@ export interface ApiKeyTable {
   expires_at: Timestamp | null;
   revoked_at: Timestamp | null;
   last_used_at: Timestamp | null;
+  /** Set on a key made by rotating another: the old key keeps working until its expires_at. */
+  rotated_from_key_id: ColumnType<number | null, number | null | undefined, number | null>;
 }
 
 export interface UsageEventTable {
@@ -97,6 +123,8 @@ export interface Database {
   usage_events: UsageEventTable;
   idempotency_records: IdempotencyRecordTable;
   audit_log: AuditLogTable;
+  verification_tokens: VerificationTokenTable;
+  invitations: InvitationTable;
 }
 
 export type Org = Selectable<OrgTable>;
@@ -112,3 +140,4 @@ export type NewUsageEvent = Insertable<UsageEventTable>;
 export type IdempotencyRecord = Selectable<IdempotencyRecordTable>;
 export type AuditEntry = Selectable<AuditLogTable>;
 export type NewAuditEntry = Insertable<AuditLogTable>;
+export type Invitation = Selectable<InvitationTable>;
