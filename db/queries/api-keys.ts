@@ -28,3 +28,25 @@ export const updateApiKey = (db: Db, orgId: number, id: number, patch: ApiKeyUpd
 
 export const touchApiKey = (db: Db, id: number, at: string) =>
   db.updateTable("api_keys").set({ last_used_at: at }).where("id", "=", id).execute();
+
+/** Keys with their creator's e-mail and whether a rotation has replaced them (a newer key names them in rotated_from_key_id). */
+const keysWithCreator = (db: Db, orgId: number) =>
+  db
+    .selectFrom("api_keys")
+    .leftJoin("users", "users.id", "api_keys.created_by_user_id")
+    .selectAll("api_keys")
+    .select((eb) => [
+      "users.email as created_by_email",
+      eb.exists(eb.selectFrom("api_keys as successor").select("successor.id").whereRef("successor.rotated_from_key_id", "=", "api_keys.id")).as("replaced"),
+    ])
+    .where("api_keys.org_id", "=", orgId);
+
+export type KeyWithCreator = NonNullable<Awaited<ReturnType<typeof findKeyWithCreator>>>;
+
+/** The org's keys, newest first; only those `createdBy` created when given. */
+export const listKeysWithCreator = (db: Db, orgId: number, createdBy?: number) => {
+  const q = keysWithCreator(db, orgId);
+  return (createdBy === undefined ? q : q.where("api_keys.created_by_user_id", "=", createdBy)).orderBy("api_keys.id", "desc").execute();
+};
+
+export const findKeyWithCreator = (db: Db, orgId: number, id: number) => keysWithCreator(db, orgId).where("api_keys.id", "=", id).executeTakeFirst();

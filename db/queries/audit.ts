@@ -27,3 +27,12 @@ export const insertAudit = (db: Db, a: AuditInput) =>
 
 export const listAudit = (db: Db, orgId: number) =>
   db.selectFrom("audit_log").selectAll().where("org_id", "=", orgId).orderBy("id").execute();
+
+/** One page of an org's audit log, newest first, below `beforeId` when given; actor and action match exactly. */
+export const listAuditPage = (db: Db, q: { orgId: number; actor?: string; action?: string; beforeId?: number; limit: number }) => {
+  let query = db.selectFrom("audit_log").selectAll().where("org_id", "=", q.orgId);
+  if (q.actor !== undefined) query = query.where("actor", "=", q.actor);
+  if (q.action !== undefined) query = query.where("action", "=", q.action);
+  if (q.beforeId !== undefined) query = query.where("id", "<", q.beforeId);
+  return query.orderBy("id", "desc").limit(q.limit).execute();
+};

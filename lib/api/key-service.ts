@@ -15,32 +15,39 @@ export interface CreateKeyInput {
   createdByUserId?: number | null;
 }
 
+/** Generate a key and store its hash, without an audit row: the caller writes the one that fits (created, rotated). */
+export async function storeNewKey(db: Db, input: CreateKeyInput & { rotatedFromKeyId?: number }): Promise<{ key: string; record: ApiKey }> {
+  const { key, prefix, hash } = generateKey(input.mode);
+  const record = await insertApiKey(db, {
+    org_id: input.orgId,
+    name: input.name,
+    mode: input.mode,
+    prefix,
+    key_hash: hash,
+    scopes: input.scopes.join(" "),
+    created_by_user_id: input.createdByUserId ?? null,
+    created_at: nowIso(),
+    expires_at: input.expiresAt ?? null,
+    rotated_from_key_id: input.rotatedFromKeyId ?? null,
+  });
+  return { key, record };
+}
+
 /** Create a key and its audit row in one transaction. The plaintext key is returned once and never stored. */
 export async function createKey(db: Db, input: CreateKeyInput, actor: string): Promise<{ key: string; record: ApiKey }> {
-  const { key, prefix, hash } = generateKey(input.mode);
-  const record = await inTransaction(db, async (tx) => {
-    const row = await insertApiKey(tx, {
-      org_id: input.orgId,
-      name: input.name,
-      mode: input.mode,
-      prefix,
-      key_hash: hash,
-      scopes: input.scopes.join(" "),
-      created_by_user_id: input.createdByUserId ?? null,
-      created_at: nowIso(),
-      expires_at: input.expiresAt ?? null,
-    });
+  return inTransaction(db, async (tx) => {
+    const created = await storeNewKey(tx, input);
+    const row = created.record;
     await insertAudit(tx, {
       orgId: input.orgId,
       actor,
       action: "key.created",
       targetType: "api_key",
       targetId: row.id,
-      details: { name: row.name, mode: row.mode, prefix, scopes: input.scopes, expiresAt: row.expires_at },
+      details: { name: row.name, mode: row.mode, prefix: row.prefix, scopes: input.scopes, expiresAt: row.expires_at },
     });
-    return row;
+    return created;
   });
-  return { key, record };
 }
 
 /** Revoke a key now; its audit row is written in the same transaction. Undefined if the org has no such key. */

@@ -1,0 +1,13 @@
+import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { inviteInput, inviteMember } from "@/lib/console/invitations";
+
+export const POST = consoleRoute(
+  sameOrigin(
+    withSession(
+      withOrgRole(["owner"], async (req, { db, org, caller, origin }) => {
+        const input = await readJson(req, inviteInput);
+        return json({ invitation: await inviteMember(db, org, caller, input, origin) }, 201);
+      }),
+    ),
+  ),
+);

@@ -1,0 +1,18 @@
+import { ANY_ROLE, consoleRoute, idParam, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { changeRole, removeMember, roleChangeInput } from "@/lib/console/members";
+
+export const PATCH = consoleRoute(
+  sameOrigin(
+    withSession(
+      withOrgRole(["owner"], async (req, ctx) => {
+        const { role } = await readJson(req, roleChangeInput);
+        return json({ member: await changeRole(ctx.db, ctx.org, ctx.caller, idParam(ctx, "userId"), role) });
+      }),
+    ),
+  ),
+);
+
+// Every role gets this far: anyone may leave; removing someone else is the service's owner-only case.
+export const DELETE = consoleRoute(
+  sameOrigin(withSession(withOrgRole(ANY_ROLE, async (_req, ctx) => json({ member: await removeMember(ctx.db, ctx.org, ctx.caller, idParam(ctx, "userId")) })))),
+);

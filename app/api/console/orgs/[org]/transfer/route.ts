@@ -1,0 +1,13 @@
+import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { transferInput, transferOwnership } from "@/lib/console/members";
+
+export const POST = consoleRoute(
+  sameOrigin(
+    withSession(
+      withOrgRole(["owner"], async (req, { db, org, caller }) => {
+        const { userId } = await readJson(req, transferInput);
+        return json(await transferOwnership(db, org, caller, userId));
+      }),
+    ),
+  ),
+);

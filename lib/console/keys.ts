@@ -1,0 +1,160 @@
+import { z } from "zod";
+import { inTransaction, type Db } from "@/db";
+import { findKeyWithCreator, listKeysWithCreator, updateApiKey, type KeyWithCreator } from "@/db/queries/api-keys";
+import { insertAudit } from "@/db/queries/audit";
+import { listOwnerEmails } from "@/db/queries/members";
+import type { KeyMode, Org } from "@/db/schema";
+import { ApiError } from "@/lib/api/errors";
+import { createKey, keyState, revokeKey, storeNewKey, type KeyState } from "@/lib/api/key-service";
+import { allScopes, type Scope } from "@/lib/api/scopes";
+import { HOUR_MS, actorOf, type Caller } from "./common";
+import { deliver, keyNotices, type KeyEvent } from "./notices";
+
+export const MAX_OVERLAP_HOURS = 720;
+const TRY_SCOPES: Scope[] = ["compute", "usage:read"];
+export const TRY_KEY = { name: "console try key", scopes: TRY_SCOPES, ttlMs: HOUR_MS };
+
+const scopeSchema = z.enum(allScopes);
+
+export const newKeyInput = z.strictObject({
+  name: z.string().trim().min(1).max(80),
+  scopes: z
+    .array(scopeSchema)
+    .min(1, "Give the key at least one scope.")
+    .transform((s) => [...new Set(s)]),
+  mode: z.enum(["test", "live"]),
+  // Stored as toISOString(): expiry checks compare timestamps as text.
+  expiresAt: z.iso
+    .datetime({ offset: true })
+    .refine((s) => Date.parse(s) > Date.now(), "Must lie in the future.")
+    .transform((s) => new Date(s).toISOString())
+    .nullish(),
+});
+export const rotateInput = z.strictObject({ overlapHours: z.number().int().min(0).max(MAX_OVERLAP_HOURS) });
+
+export type ConsoleKeyState = KeyState | "expiring";
+
+export interface KeyRecord {
+  id: number;
+  name: string;
+  prefix: string;
+  mode: KeyMode;
+  scopes: string[];
+  createdBy: { id: number; email: string } | null;
+  createdAt: string;
+  lastUsedAt: string | null;
+  expiresAt: string | null;
+  revokedAt: string | null;
+  state: ConsoleKeyState;
+  rotatedFromKeyId: number | null;
+}
+
+/** "expiring": still active, with its end set by a rotation (a newer key replaced it). */
+function consoleState(k: KeyWithCreator, now: Date): ConsoleKeyState {
+  const s = keyState(k, now);
+  return s === "active" && k.expires_at !== null && Boolean(k.replaced) ? "expiring" : s;
+}
+
+function keyRecord(k: KeyWithCreator, now = new Date()): KeyRecord {
+  return {
+    id: k.id,
+    name: k.name,
+    prefix: k.prefix,
+    mode: k.mode,
+    scopes: k.scopes.split(" ").filter(Boolean),
+    createdBy: k.created_by_user_id !== null && k.created_by_email !== null ? { id: k.created_by_user_id, email: k.created_by_email } : null,
+    createdAt: k.created_at,
+    lastUsedAt: k.last_used_at,
+    expiresAt: k.expires_at,
+    revokedAt: k.revoked_at,
+    state: consoleState(k, now),
+    rotatedFromKeyId: k.rotated_from_key_id,
+  };
+}
+
+/** Owners see every key of the org; developers only the keys they created. */
+const visibleTo = (caller: Caller) => (caller.role === "owner" ? undefined : caller.id);
+
+export async function listOrgKeys(db: Db, org: Org, caller: Caller): Promise<KeyRecord[]> {
+  const now = new Date();
+  return (await listKeysWithCreator(db, org.id, visibleTo(caller))).map((k) => keyRecord(k, now));
+}
+
+/** A key the caller may act on; another org's key, or for a developer another member's, is not there (404). */
+async function visibleKey(db: Db, org: Org, caller: Caller, id: number): Promise<KeyWithCreator> {
+  const k = await findKeyWithCreator(db, org.id, id);
+  const mine = visibleTo(caller);
+  if (!k || (mine !== undefined && k.created_by_user_id !== mine)) throw new ApiError("not-found", `No key ${id} in ${org.slug} that you can manage.`);
+  return k;
+}
+
+async function recordOf(db: Db, org: Org, id: number): Promise<KeyRecord> {
+  return keyRecord((await findKeyWithCreator(db, org.id, id))!);
+}
+
+const eventOf = (k: { prefix: string; name: string; mode: KeyMode }) => ({ prefix: k.prefix, name: k.name, mode: k.mode });
+
+export async function createOrgKey(db: Db, org: Org, caller: Caller, input: z.output<typeof newKeyInput>): Promise<{ key: string; record: KeyRecord }> {
+  const out = await inTransaction(db, async (tx) => {
+    const { key, record } = await createKey(tx, { orgId: org.id, name: input.name, mode: input.mode, scopes: input.scopes, expiresAt: input.expiresAt ?? null, createdByUserId: caller.id }, actorOf(caller));
+    return { key, record: await recordOf(tx, org, record.id), owners: await listOwnerEmails(tx, org.id) };
+  });
+  deliver(keyNotices(out.owners, org, caller.email, { kind: "created", ...eventOf(out.record) }));
+  return { key: out.key, record: out.record };
+}
+
+/**
+ * Replace a key by a new one with the same name, scopes and mode. The old key keeps working for
+ * `overlapHours` (0: it stops at once), never longer than it would have anyway. The new key belongs
+ * to the old key's creator, so a developer still sees a key an owner rotated for them.
+ */
+export async function rotateOrgKey(db: Db, org: Org, caller: Caller, id: number, overlapHours: number) {
+  const now = new Date();
+  const out = await inTransaction(db, async (tx) => {
+    const old = await visibleKey(tx, org, caller, id);
+    const state = keyState(old, now);
+    if (state !== "active") throw new ApiError("key-inactive", `Key ${old.prefix}… is ${state}; only an active key can be rotated.`);
+    const overlapEnd = new Date(now.getTime() + overlapHours * HOUR_MS).toISOString();
+    const oldEndsAt = old.expires_at !== null && old.expires_at < overlapEnd ? old.expires_at : overlapEnd;
+    await updateApiKey(tx, org.id, old.id, { expires_at: oldEndsAt });
+    const { key, record } = await storeNewKey(tx, {
+      orgId: org.id,
+      name: old.name,
+      mode: old.mode,
+      scopes: old.scopes.split(" ").filter(Boolean) as Scope[],
+      createdByUserId: old.created_by_user_id ?? caller.id,
+      rotatedFromKeyId: old.id,
+    });
+    await insertAudit(tx, {
+      orgId: org.id,
+      actor: actorOf(caller),
+      action: "key.rotated",
+      targetType: "api_key",
+      targetId: old.id,
+      details: { prefix: old.prefix, newKeyId: record.id, newPrefix: record.prefix, overlapHours, oldKeyEndsAt: oldEndsAt },
+    });
+    return { key, record: await recordOf(tx, org, record.id), previous: { id: old.id, expiresAt: oldEndsAt }, old, owners: await listOwnerEmails(tx, org.id) };
+  });
+  const event: KeyEvent = { kind: "rotated", ...eventOf(out.old), newPrefix: out.record.prefix, oldKeyEndsAt: out.previous.expiresAt };
+  deliver(keyNotices(out.owners, org, caller.email, event));
+  return { key: out.key, record: out.record, previous: out.previous };
+}
+
+/** Revoke a key at once. Revoking a revoked key changes nothing and notifies no one. */
+export async function revokeOrgKey(db: Db, org: Org, caller: Caller, id: number): Promise<{ record: KeyRecord }> {
+  const out = await inTransaction(db, async (tx) => {
+    const k = await visibleKey(tx, org, caller, id);
+    const changed = k.revoked_at === null;
+    if (changed) await revokeKey(tx, org.id, id, actorOf(caller));
+    return { record: await recordOf(tx, org, id), k, owners: changed ? await listOwnerEmails(tx, org.id) : [] };
+  });
+  deliver(keyNotices(out.owners, org, caller.email, { kind: "revoked", ...eventOf(out.k) }));
+  return { record: out.record };
+}
+
+/** A short-lived test key for the console's try page; it is in the audit log, but owners get no mail for it. */
+export async function createTryKey(db: Db, org: Org, caller: Caller): Promise<{ key: string; expiresAt: string }> {
+  const expiresAt = new Date(Date.now() + TRY_KEY.ttlMs).toISOString();
+  const { key } = await createKey(db, { orgId: org.id, name: TRY_KEY.name, mode: "test", scopes: TRY_KEY.scopes, expiresAt, createdByUserId: caller.id }, actorOf(caller));
+  return { key, expiresAt };
+}

@@ -1,0 +1,228 @@
+import { beforeEach, describe, expect, it, vi } from "vitest";
+import { listAudit } from "@/db/queries/audit";
+import { createKey } from "@/lib/api/key-service";
+import { hashKey, isWellFormedKey } from "@/lib/api/keys";
+import { sendMail } from "@/lib/mail/send";
+import { expectFieldError, expectProblem, getQuery, postJson } from "../helpers/api";
+import { consoleCall, makeConsoleOrg, sentMails, type ConsoleFixture, type Person } from "../helpers/console";
+
+vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
+
+let fx: ConsoleFixture;
+beforeEach(async () => {
+  vi.mocked(sendMail).mockClear();
+  fx = await makeConsoleOrg();
+});
+
+interface KeyRecord {
+  id: number;
+  name: string;
+  prefix: string;
+  mode: string;
+  scopes: string[];
+  createdBy: { id: number; email: string } | null;
+  state: string;
+  expiresAt: string | null;
+  revokedAt: string | null;
+  rotatedFromKeyId: number | null;
+}
+
+const keysPath = () => `/api/console/orgs/${fx.org.slug}/keys`;
+const listKeys = async (p: Person): Promise<KeyRecord[]> => {
+  const res = await consoleCall("GET", keysPath(), { cookie: p.cookie });
+  expect(res.status, res.text).toBe(200);
+  return res.body.keys;
+};
+const rotate = (p: Person, id: number, overlapHours: unknown) => consoleCall("POST", `${keysPath()}/${id}/rotate`, { cookie: p.cookie, body: { overlapHours } });
+const revoke = (p: Person, id: number) => consoleCall("POST", `${keysPath()}/${id}/revoke`, { cookie: p.cookie });
+/** One call of the public API with a key: the status it gets. */
+const capacityWith = async (key: string) => (await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${key}`)).status;
+const ownerMailsAbout = (prefix: string) => sentMails().filter((m) => m.subject.includes(prefix)).map((m) => m.to).sort();
+const owners = () => [fx.owner.email, fx.coOwner.email].sort();
+
+describe("listing", () => {
+  it("an owner sees every key of the org with its creator and state", async () => {
+    const cli = await createKey(fx.db, { orgId: fx.org.id, name: "ops", mode: "live", scopes: ["usage:read"] }, "cli");
+    const keys = await listKeys(fx.owner);
+    expect(keys.map((k) => k.id).sort((a, b) => a - b)).toEqual([fx.keys.owner, fx.keys.developer, fx.keys.spare, cli].map((k) => k.record.id).sort((a, b) => a - b));
+    expect(keys.find((k) => k.id === fx.keys.developer.record.id)).toMatchObject({
+      name: "developer key",
+      prefix: fx.keys.developer.record.prefix,
+      mode: "test",
+      scopes: ["compute", "usage:read"],
+      createdBy: { id: fx.developer.id, email: fx.developer.email },
+      state: "active",
+      expiresAt: null,
+      revokedAt: null,
+      rotatedFromKeyId: null,
+    });
+    expect(keys.find((k) => k.id === cli.record.id)).toMatchObject({ createdBy: null, mode: "live", scopes: ["usage:read"] });
+    expect(JSON.stringify(keys)).not.toContain(fx.keys.owner.key);
+  });
+
+  it("a developer sees only the keys they created", async () => {
+    expect((await listKeys(fx.developer)).map((k) => k.id)).toEqual([fx.keys.developer.record.id]);
+    expect((await listKeys(fx.spare)).map((k) => k.id)).toEqual([fx.keys.spare.record.id]);
+  });
+});
+
+describe("creating", () => {
+  it("returns the key once, stores only its hash, audits it and tells every owner", async () => {
+    const res = await consoleCall("POST", keysPath(), { cookie: fx.developer.cookie, body: { name: "buoy CI", scopes: ["compute"], mode: "live" } });
+    expect(res.status, res.text).toBe(201);
+    const { key, record } = res.body as { key: string; record: KeyRecord };
+    expect(isWellFormedKey(key)).toBe(true);
+    expect(key.startsWith("prt_live_")).toBe(true);
+    expect(record).toMatchObject({ name: "buoy CI", mode: "live", scopes: ["compute"], createdBy: { id: fx.developer.id, email: fx.developer.email }, state: "active" });
+    expect(key.startsWith(record.prefix)).toBe(true);
+    expect(await capacityWith(key)).toBe(200);
+
+    const row = await fx.db.selectFrom("api_keys").selectAll().where("id", "=", record.id).executeTakeFirstOrThrow();
+    expect(row.key_hash).toBe(hashKey(key));
+    expect(JSON.stringify(row)).not.toContain(key);
+    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.created" && a.target_id === String(record.id))).toHaveLength(1);
+
+    expect(ownerMailsAbout(record.prefix)).toEqual(owners());
+    for (const m of sentMails()) expect(m.text).not.toContain(key);
+  });
+
+  it("stores an expiry given with a UTC offset as UTC (expiry checks compare the text)", async () => {
+    const at = new Date(Math.floor(Date.now() / 1000) * 1000 + 3600_000);
+    // The same instant written two hours east of UTC.
+    const local = new Date(at.getTime() + 2 * 3600_000).toISOString().replace("Z", "+02:00");
+    const res = await consoleCall("POST", keysPath(), { cookie: fx.owner.cookie, body: { name: "short", scopes: ["compute"], mode: "test", expiresAt: local } });
+    expect(res.status, res.text).toBe(201);
+    expect(res.body.record.expiresAt).toBe(at.toISOString());
+    expect(res.body.record.state).toBe("active");
+  });
+
+  it.each([
+    ["no scopes", { name: "k", scopes: [], mode: "test" }, "/scopes"],
+    ["an unknown scope", { name: "k", scopes: ["admin"], mode: "test" }, "/scopes/0"],
+    ["an unknown mode", { name: "k", scopes: ["compute"], mode: "prod" }, "/mode"],
+    ["an empty name", { name: "  ", scopes: ["compute"], mode: "test" }, "/name"],
+    ["an expiry in the past", { name: "k", scopes: ["compute"], mode: "test", expiresAt: "2020-01-01T00:00:00Z" }, "/expiresAt"],
+    ["an expiry that is not a time", { name: "k", scopes: ["compute"], mode: "test", expiresAt: "tomorrow" }, "/expiresAt"],
+  ])("422 for %s", async (_name, body, pointer) => {
+    expectFieldError(await consoleCall("POST", keysPath(), { cookie: fx.owner.cookie, body }), pointer);
+    expect(sentMails()).toEqual([]);
+  });
+
+  it("a failing mail server does not fail the request; the failure is logged", async () => {
+    vi.mocked(sendMail).mockRejectedValue(new Error("connect ECONNREFUSED"));
+    const log = vi.spyOn(console, "error").mockImplementation(() => {});
+    try {
+      const res = await consoleCall("POST", keysPath(), { cookie: fx.owner.cookie, body: { name: "k", scopes: ["compute"], mode: "test" } });
+      expect(res.status, res.text).toBe(201);
+      await vi.waitFor(() => expect(log).toHaveBeenCalledTimes(2));
+      expect(await capacityWith(res.body.key)).toBe(200);
+    } finally {
+      log.mockRestore();
+      vi.mocked(sendMail).mockImplementation(async () => {});
+    }
+  });
+});
+
+describe("rotation with an overlap window", () => {
+  it("both keys work inside the window; after it the old key gets 401 and the new one still works", async () => {
+    const old = fx.keys.owner;
+    const res = await rotate(fx.owner, old.record.id, 24);
+    expect(res.status, res.text).toBe(201);
+    const { key, record, previous } = res.body as { key: string; record: KeyRecord; previous: { id: number; expiresAt: string } };
+    expect(previous.id).toBe(old.record.id);
+    expect(Math.abs(Date.parse(previous.expiresAt) - (Date.now() + 24 * 3600_000))).toBeLessThan(60_000);
+    expect(record).toMatchObject({ name: old.record.name, mode: "test", scopes: ["compute", "usage:read"], rotatedFromKeyId: old.record.id, state: "active", expiresAt: null });
+
+    expect(await capacityWith(old.key)).toBe(200);
+    expect(await capacityWith(key)).toBe(200);
+    const listed = new Map((await listKeys(fx.owner)).map((k) => [k.id, k]));
+    expect(listed.get(old.record.id)).toMatchObject({ state: "expiring", expiresAt: previous.expiresAt });
+    expect(listed.get(record.id)).toMatchObject({ state: "active", rotatedFromKeyId: old.record.id });
+
+    // The window ends.
+    await fx.db.updateTable("api_keys").set({ expires_at: new Date(Date.now() - 1000).toISOString() }).where("id", "=", old.record.id).execute();
+    const refused = await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${old.key}`);
+    expect(expectProblem(refused, 401, "unauthenticated").detail).toMatch(/expired/);
+    expect(await capacityWith(key)).toBe(200);
+    expect((await listKeys(fx.owner)).find((k) => k.id === old.record.id)!.state).toBe("expired");
+
+    const audit = (await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.rotated");
+    expect(audit).toHaveLength(1);
+    expect(JSON.parse(audit[0]!.details)).toMatchObject({ newKeyId: record.id, overlapHours: 24 });
+    expect(ownerMailsAbout(old.record.prefix)).toEqual(owners());
+  });
+
+  it("an overlap of 0 ends the old key at once", async () => {
+    const old = fx.keys.developer;
+    const res = await rotate(fx.developer, old.record.id, 0);
+    expect(res.status, res.text).toBe(201);
+    expect(await capacityWith(old.key)).toBe(401);
+    expect(await capacityWith(res.body.key)).toBe(200);
+  });
+
+  it("never lengthens a key's life: an earlier expiry stays", async () => {
+    const soon = new Date(Date.now() + 3600_000).toISOString();
+    const short = await createKey(fx.db, { orgId: fx.org.id, name: "short", mode: "test", scopes: ["compute"], expiresAt: soon, createdByUserId: fx.owner.id }, "test");
+    const res = await rotate(fx.owner, short.record.id, 720);
+    expect(res.body.previous.expiresAt).toBe(soon);
+  });
+
+  it("the new key stays with the old key's creator, so a developer sees the key an owner rotated for them", async () => {
+    const res = await rotate(fx.owner, fx.keys.developer.record.id, 1);
+    expect(res.body.record.createdBy).toEqual({ id: fx.developer.id, email: fx.developer.email });
+    expect((await listKeys(fx.developer)).map((k) => k.id)).toContain(res.body.record.id);
+  });
+
+  it("409 for a revoked or an expired key", async () => {
+    await revoke(fx.owner, fx.keys.spare.record.id);
+    expectProblem(await rotate(fx.owner, fx.keys.spare.record.id, 1), 409, "key-inactive");
+    await rotate(fx.owner, fx.keys.owner.record.id, 0);
+    expectProblem(await rotate(fx.owner, fx.keys.owner.record.id, 1), 409, "key-inactive");
+  });
+
+  it.each([[721], [-1], [1.5], ["24"], [null]])("422 for overlapHours %j", async (overlapHours) => {
+    expectFieldError(await rotate(fx.owner, fx.keys.owner.record.id, overlapHours), "/overlapHours");
+    expect(await capacityWith(fx.keys.owner.key)).toBe(200);
+  });
+
+  it("a developer cannot reach another member's key (404), whatever the id", async () => {
+    expectProblem(await rotate(fx.developer, fx.keys.owner.record.id, 1), 404, "not-found");
+    expectProblem(await rotate(fx.developer, 999999, 1), 404, "not-found");
+    expect(await capacityWith(fx.keys.owner.key)).toBe(200);
+  });
+});
+
+describe("revocation", () => {
+  it("is immediate, audited and mailed to owners; a second revocation changes nothing", async () => {
+    const k = fx.keys.spare;
+    expect(await capacityWith(k.key)).toBe(200);
+    const res = await revoke(fx.owner, k.record.id);
+    expect(res.status, res.text).toBe(200);
+    expect(res.body.record).toMatchObject({ id: k.record.id, state: "revoked", revokedAt: expect.any(String) });
+    const refused = await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${k.key}`);
+    expect(expectProblem(refused, 401, "unauthenticated").detail).toMatch(/revoked/);
+    expect(ownerMailsAbout(k.record.prefix)).toEqual(owners());
+
+    vi.mocked(sendMail).mockClear();
+    expect((await revoke(fx.owner, k.record.id)).status).toBe(200);
+    expect(sentMails()).toEqual([]);
+    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.revoked")).toHaveLength(1);
+  });
+});
+
+describe("the try key", () => {
+  it("is a test key for compute and usage:read that lasts an hour, made by the caller, audited, not mailed", async () => {
+    const res = await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/try-key`, { cookie: fx.developer.cookie });
+    expect(res.status, res.text).toBe(201);
+    const { key, expiresAt } = res.body as { key: string; expiresAt: string };
+    expect(key.startsWith("prt_test_")).toBe(true);
+    expect(Math.abs(Date.parse(expiresAt) - (Date.now() + 3600_000))).toBeLessThan(60_000);
+    expect(await capacityWith(key)).toBe(200);
+    expect((await getQuery("/api/v1/usage", {}, `Bearer ${key}`)).status).toBe(200);
+
+    const listed = (await listKeys(fx.developer)).find((k) => key.startsWith(k.prefix) && k.name === "console try key");
+    expect(listed).toMatchObject({ scopes: ["compute", "usage:read"], mode: "test", expiresAt, createdBy: { id: fx.developer.id, email: fx.developer.email }, state: "active" });
+    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.created" && a.target_id === String(listed!.id))).toHaveLength(1);
+    expect(sentMails()).toEqual([]);
+  });
+});
