@@ -1,8 +1,12 @@
 import { spawn, spawnSync } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { dirname, join, resolve } from "node:path";
 import { closeDb, databaseFile, getDb } from "@/db";
 import { createKey, revokeKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
-import { DEMO_ORG, seedDemo } from "@/db/seed/demo";
+import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
+import { startFakeSmtp } from "@/fakes/smtp";
 
 /** Migrate, seed the demo org, mint a fresh demo key, build, start, and print how to call the API. */
 const port = Number(process.env.PORT ?? 3000);
@@ -19,8 +23,31 @@ if (process.env.PARITAS_DEMO_SKIP_BUILD !== "1") {
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
 
+const base = `http://localhost:${port}`;
+
+// Mail goes to a fake SMTP server in this process (port 2525, or any free one if that is taken);
+// the console shows what it received at /console/dev/mailbox.
+const smtp = await startFakeSmtp().catch((e: NodeJS.ErrnoException) => (e.code === "EADDRINUSE" ? startFakeSmtp({ port: 0 }) : Promise.reject(e)));
+
+// Sessions are signed with a secret kept beside the database, so they survive a restart of the demo.
+const secretFile = join(dirname(resolve(databaseFile())), ".auth-secret");
+if (!process.env.PARITAS_AUTH_SECRET && !existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString("base64url"), { mode: 0o600 });
+const authSecret = process.env.PARITAS_AUTH_SECRET ?? readFileSync(secretFile, "utf8").trim();
+
 // Its own process group, so that stopping the demo stops next-server too.
-const server = spawn("node_modules/.bin/next", ["start", "-p", String(port)], { stdio: "inherit", detached: true, env: { ...process.env, PARITAS_DB_FILE: databaseFile() } });
+const server = spawn("node_modules/.bin/next", ["start", "-p", String(port)], {
+  stdio: "inherit",
+  detached: true,
+  env: {
+    ...process.env,
+    PARITAS_DB_FILE: databaseFile(),
+    PARITAS_SMTP_URL: `smtp://127.0.0.1:${smtp.port}`,
+    PARITAS_MAILBOX_DIR: smtp.dir,
+    PARITAS_DEV_MAILBOX: "1",
+    PARITAS_AUTH_SECRET: authSecret,
+    NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? base,
+  },
+});
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
     try {
@@ -32,7 +59,6 @@ for (const sig of ["SIGINT", "SIGTERM"] as const) {
 }
 server.on("exit", (code) => process.exit(code ?? 0));
 
-const base = `http://localhost:${port}`;
 for (let i = 0; i < 120; i++) {
   try {
     if ((await fetch(`${base}/api/health`)).ok) break;
@@ -45,6 +71,11 @@ const body = JSON.stringify({ channel: "bsc", p: 0.11 });
 console.log(`
 Paritas is running at ${base} with the demo org "${DEMO_ORG.name}" (database ${databaseFile()}).
 API reference: ${base}/docs
+
+Console sign-in: ${base}/signin, password ${DEMO_PASSWORD} for
+${DEMO_USERS.map((u) => `  ${u.email} (${u.role})`).join("\n")}
+Mail from the console (sign-in and reset links) lands at ${base}/console/dev/mailbox
+(fake SMTP on 127.0.0.1:${smtp.port}, messages in ${smtp.dir}).
 
 Demo API key (shown once; a new one is made on every start):
 Authorization: Bearer ${key}

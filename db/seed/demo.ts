@@ -1,12 +1,14 @@
 import type { Db } from "@/db";
 import { nowIso } from "@/db";
 import { insertApiKey } from "@/db/queries/api-keys";
+import { insertAuthUser } from "@/db/queries/auth";
 import { insertAudit } from "@/db/queries/audit";
 import { findOrgBySlug, insertOrg } from "@/db/queries/orgs";
-import { insertMembership, insertUser } from "@/db/queries/users";
+import { insertMembership } from "@/db/queries/users";
 import { createKey } from "@/lib/api/key-service";
 import { generateKey } from "@/lib/api/keys";
 import { allScopes } from "@/lib/api/scopes";
+import { hashPassword } from "@/lib/auth/passwords";
 
 /**
  * The demo scenario: Brinewatch Buoys builds moored ocean-sensor buoys that report over a
@@ -18,6 +20,8 @@ export const DEMO_USERS = [
   { email: "teo.quillan@brinewatch.example", name: "Teo Quillan", role: "developer" as const },
   { email: "amara.lindqvist@brinewatch.example", name: "Amara Lindqvist", role: "billing" as const },
 ];
+/** All three demo people sign in to the console with this password (or with an e-mail link). */
+export const DEMO_PASSWORD = "tide-pool-2026";
 
 const DAY = 86_400_000;
 const ENDPOINTS: [string, string, number][] = [
@@ -38,15 +42,25 @@ function rng(seed: number) {
   };
 }
 
-/** Seed the demo org once; later runs leave it as it is. Returns the org id. */
+/** Seed the demo org once; later runs leave it as it is, except to give the demo people passwords they lack. Returns the org id. */
 export async function seedDemo(db: Db, now = new Date()): Promise<number> {
   const existing = await findOrgBySlug(db, DEMO_ORG.slug);
-  if (existing) return existing.id;
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  if (existing) {
+    // Demo databases seeded before the console had passwords get them now.
+    await db
+      .updateTable("users")
+      .set({ password_hash: passwordHash, email_verified: now.toISOString() })
+      .where("email", "in", DEMO_USERS.map((u) => u.email))
+      .where("password_hash", "is", null)
+      .execute();
+    return existing.id;
+  }
   return db.transaction().execute(async (tx) => {
     const org = await insertOrg(tx, { ...DEMO_ORG, plan: "team" });
     const users = [];
     for (const u of DEMO_USERS) {
-      const user = await insertUser(tx, u);
+      const user = await insertAuthUser(tx, { email: u.email, name: u.name, passwordHash, emailVerified: now.toISOString() });
       await insertMembership(tx, { orgId: org.id, userId: user.id, role: u.role });
       users.push(user);
     }

@@ -23,5 +23,7 @@ function transport(): Transporter {
 }
 
 export async function sendMail(mail: Mail): Promise<void> {
-  await transport().sendMail({ from: mailFrom(), ...mail });
+  const info = await transport().sendMail({ from: mailFrom(), ...mail });
+  // The server can accept the message yet refuse the recipient; that is a failure to deliver too.
+  if (info.rejected.length > 0) throw new Error(`the mail server refused ${info.rejected.length} recipient(s)`);
 }

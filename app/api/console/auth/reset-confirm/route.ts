@@ -1,0 +1,30 @@
+import { z } from "zod";
+import { inTransaction } from "@/db";
+import { deleteVerificationTokens, setPassword, takeVerificationToken } from "@/db/queries/auth";
+import { findUserByEmail } from "@/db/queries/users";
+import { ApiError } from "@/lib/api/errors";
+import { hashToken } from "@/lib/auth/adapter";
+import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
+import { hashPassword, passwordSchema } from "@/lib/auth/passwords";
+
+const resetConfirm = z.strictObject({ token: z.string().min(1).max(200), password: passwordSchema });
+
+/** POST /api/console/auth/reset-confirm {token, password} → 200; the link works once. */
+export const POST = consoleRoute(
+  sameOrigin(async (req, { db }) => {
+    const input = await readJson(req, resetConfirm);
+    // bcrypt runs before the transaction, so that it does not hold the database.
+    const passwordHash = await hashPassword(input.password);
+    const changed = await inTransaction(db, async (tx) => {
+      const link = await takeVerificationToken(tx, { tokenHash: hashToken(input.token), purpose: "password-reset" });
+      const user = link && (await findUserByEmail(tx, link.identifier));
+      if (!link || !user) return false;
+      await setPassword(tx, user.id, passwordHash);
+      // Any older links for the address stop working with this one.
+      await deleteVerificationTokens(tx, link.identifier, "password-reset");
+      return true;
+    });
+    if (!changed) throw new ApiError("reset-link-invalid", "This link has expired or has been used already; a link works once, within an hour.");
+    return json({ next: "sign-in", detail: "The new password is set. Sign in with it." });
+  }),
+);
