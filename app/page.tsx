@@ -73,8 +73,7 @@ export default function Home() {
                 href="/console"
                 className="inline-flex items-center justify-center gap-2 rounded-md border border-rule bg-surface px-5 py-2.5 font-medium text-ink no-underline hover:bg-sunken"
               >
-                Console
-                <span className="text-sm font-normal text-ink-2">— not built yet</span>
+                Sign in to the console
               </a>
             </div>
           </div>
@@ -189,16 +188,15 @@ export default function Home() {
 
       {/* ---- Console ---- */}
       <section aria-labelledby="console-heading" className="mx-auto mt-16 max-w-6xl px-5 sm:px-8">
-        <div className="rounded-lg border border-dashed border-rule p-6 sm:p-8">
+        <div className="rounded-lg border border-rule p-6 sm:p-8">
           <h2 id="console-heading" className="text-2xl font-semibold tracking-tight">
-            The console is still on the bench
+            The console
           </h2>
           <p className="mt-3 max-w-3xl text-ink-2">
-            A web console is planned: a form for every endpoint that shows the request as curl,
-            API keys you can create, rotate and revoke, members and roles, and usage by key and
-            day. None of it is built yet, and <code className="pa-code">/console</code> has
-            nothing to show until it is. Meanwhile the <a href="/docs">API reference</a> can send
-            live requests from the browser.
+            A form for every endpoint that shows the response, the request as curl and as a typed
+            TypeScript call; API keys you create, rotate with an overlap and revoke; members, roles
+            and invitations; usage by day, endpoint and key; and the audit trail.{" "}
+            <a href="/signin">Sign in</a> to use it.
           </p>
         </div>
       </section>

@@ -31,11 +31,8 @@ export function SiteHeader() {
               </Link>
             </li>
             <li>
-              <a href="/console" className={`${navLink} inline-flex items-center gap-1.5`}>
+              <a href="/console" className={navLink}>
                 Console
-                <span className="rounded border border-rule px-1.5 py-px font-mono text-[0.6875rem] font-normal text-ink-2">
-                  not built yet
-                </span>
               </a>
             </li>
           </ul>

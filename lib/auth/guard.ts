@@ -26,7 +26,7 @@ export interface ConsoleCtx {
   db: Db;
   requestId: string;
   params: Record<string, string>;
-  /** The origin the request was addressed to (scheme://host[:port]), for links in e-mails. */
+  /** The console's public origin (NEXTAUTH_URL when set, never a forged Host header), for links in e-mails. */
   origin: string;
 }
 export interface SessionCtx extends ConsoleCtx {
@@ -64,7 +64,7 @@ export function consoleRoute(handler: Handler<ConsoleCtx>): RouteHandler {
     try {
       const raw = (await route.params) ?? {};
       const params = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, Array.isArray(v) ? v.join("/") : (v ?? "")]));
-      res = await handler(req, { db: await getDb(), requestId, params, origin: ownOrigins(req)[0]! });
+      res = await handler(req, { db: await getDb(), requestId, params, origin: process.env.NEXTAUTH_URL ? new URL(process.env.NEXTAUTH_URL).origin : ownOrigins(req)[0]! });
     } catch (err) {
       res = problemResponse(err instanceof z.ZodError ? validationFailed(fieldErrorsFromZod(err)) : err, requestId);
     }
