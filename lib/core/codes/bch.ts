@@ -4,8 +4,12 @@ import { checkBinaryWord, rejectErasures } from "../gf2";
 import { type GaloisField, galoisField } from "../gfpm";
 import * as poly2 from "../poly2";
 import * as polym from "../polym";
-import { checkBinaryBatch, firstNonBit } from "./hamming";
+import { byteView, checkBinaryBatch, firstNonBit, NON_BITS, nibble, SPREAD } from "./hamming";
 import type { BlockCode, DecodeResult, Word } from "./types";
+
+// Local bindings of the shared word helpers: a transpiled import can be a getter, too slow to call per byte.
+const gather = nibble;
+const spread = SPREAD;
 
 /** Parameters of a binary narrow-sense primitive BCH code. */
 export interface BchOptions {
@@ -52,8 +56,72 @@ function checkInteger(x: number, name: string, min: number): void {
   if (!Number.isInteger(x) || x < min) throw new InputError(`${name} must be an integer of at least ${min}; got ${x}`, [name]);
 }
 
-function outcome(codeword: Bits, k: number, syndrome: Bits, failure: boolean, correctedPositions: number[], reason?: string): DecodeResult {
-  return { message: codeword.slice(0, k), codeword, correctedPositions, syndrome, failure, ...(reason === undefined ? {} : { reason }) };
+/**
+ * A decoder's result over one buffer laid out [codeword (n) | message (k) | syndrome (r)], codeword and
+ * syndrome already filled: one allocation instead of three, since a typed array's own buffer costs far more
+ * than a view of a shared one. The message is copied from the codeword's first k bits.
+ */
+function outcome(buffer: Bits, n: number, k: number, failure: boolean, correctedPositions: number[], reason?: string): DecodeResult {
+  buffer.copyWithin(n, 0, k);
+  const message = buffer.subarray(n, n + k);
+  const codeword = buffer.subarray(0, n);
+  const syndrome = buffer.subarray(n + k);
+  return reason === undefined ? { message, codeword, correctedPositions, syndrome, failure } : { message, codeword, correctedPositions, syndrome, failure, reason };
+}
+
+/** Syndromes S_1..S_2t (sums), then Λ and the two other registers of Berlekamp's algorithm, 2t + 1 coefficients each. */
+interface DecoderScratch {
+  sums: Uint16Array;
+  lambda: Uint16Array;
+  prev: Uint16Array;
+  spare: Uint16Array;
+}
+
+const quadraticTables = new WeakMap<GaloisField, Int32Array>();
+
+/** solutions[c]: a y with y² + y = c in GF(2^m), the other being y + 1, or −1 when there is none; listed from every even y once per field. */
+function quadraticSolutions(field: GaloisField): Int32Array {
+  const hit = quadraticTables.get(field);
+  if (hit) return hit;
+  const solutions = new Int32Array(field.size).fill(-1);
+  for (let y = 0; y < field.size; y += 2) solutions[field.mul(y, y) ^ y] = y;
+  quadraticTables.set(field, solutions);
+  return solutions;
+}
+
+/**
+ * What Chien search reports for an error locator of degree 1 or 2 (ascending p < n with Λ(β^(−p)) = 0,
+ * distinct), solved in closed form: 1 + Λ1·x vanishes at x = 1/Λ1, so p = log Λ1; for 1 + Λ1·x + Λ2·x²,
+ * x = (Λ1/Λ2)·y turns it into y² + y = Λ2/Λ1², read from `solutions` (quadraticSolutions), and Λ1 = 0
+ * leaves the one double root x = Λ2^(−1/2) (Berlekamp, Rumsey & Solomon 1967).
+ */
+function smallLocatorRoots(field: GaloisField, solutions: Int32Array, locator: polym.PolyM, n: number): number[] {
+  const { logTable: log, order } = field;
+  const l1 = locator[1] ?? 0;
+  const l2 = locator[2] ?? 0;
+  let p = -1;
+  let q = -1;
+  if (l2 === 0) {
+    p = log[l1]!;
+  } else if (l1 === 0) {
+    // X = √Λ2: halve the log modulo the odd order.
+    const l = log[l2]!;
+    p = l % 2 === 0 ? l / 2 : (l + order) / 2;
+  } else {
+    const y = solutions[field.div(l2, field.mul(l1, l1))]!;
+    if (y >= 0) {
+      // p = −log x = log Λ2 − log Λ1 − log y, for y and y + 1 (neither is 0 or 1, since Λ2 ≠ 0).
+      const base = log[l2]! + 2 * order - log[l1]!;
+      const a = (base - log[y]!) % order;
+      const b = (base - log[y ^ 1]!) % order;
+      p = Math.min(a, b);
+      q = Math.max(a, b);
+    }
+  }
+  const roots: number[] = [];
+  if (p >= 0 && p < n) roots.push(p);
+  if (q >= 0 && q < n) roots.push(q);
+  return roots;
 }
 
 class Bch implements BchCode {
@@ -83,8 +151,10 @@ class Bch implements BchCode {
   private readonly table: Uint32Array;
   /** The division register, reused by every call (calls never overlap). */
   private readonly reg: Uint32Array;
-  /** Syndromes S_1..S_2t of the word being decoded, reused likewise. */
-  private readonly sums: Uint16Array;
+  /** Decoder scratch, made on the first decode and reused likewise. */
+  private scratch?: DecoderScratch;
+  /** quadraticSolutions(field), fetched on the first locator of degree 2. */
+  private quadratic?: Int32Array;
 
   constructor(
     private readonly field: GaloisField,
@@ -108,7 +178,6 @@ class Bch implements BchCode {
     this.words = Math.ceil(this.r / 32);
     this.table = this.byteTable();
     this.reg = new Uint32Array(this.words);
-    this.sums = new Uint16Array(2 * this.t);
     if (this.k * this.n <= MAX_GENERATOR_ENTRIES) this.generatorRows = () => this.systematicRows();
   }
 
@@ -143,91 +212,117 @@ class Bch implements BchCode {
     return table;
   }
 
+  /** reg ← (reg·x^8 + byte·x^r) mod g(x): with R = R_hi·x^(r−8) + R_lo, that is R_lo·x^8 + ((R_hi + byte)·x^r mod g), one table row (Lin & Costello 2004, ch. 5). */
+  private shiftIn(byte: number): void {
+    const { words, table, reg } = this;
+    const row = ((reg[0]! >>> 24) ^ byte) * words;
+    for (let w = 0; w < words - 1; w++) reg[w] = ((reg[w]! << 8) | (reg[w + 1]! >>> 24)) ^ table[row + w]!;
+    reg[words - 1] = (reg[words - 1]! << 8) ^ table[row + words - 1]!;
+  }
+
   /**
-   * x^r·u(x) mod g(x) into `reg` for the k bits u at src[from..], copied to out[to..] on the way, a byte at a
-   * time: with R = R_hi·x^(r−8) + R_lo, (R·x^8 + B·x^r) mod g = R_lo·x^8 + ((R_hi + B)·x^r mod g), one table
-   * row per byte (Lin & Costello 2004, ch. 5). Returns the OR of the bits read, > 1 for a non-bit.
+   * For each of `count` words at src (one every `stride` entries): x^r·u(x) mod g(x) for its first k bits u,
+   * by a byte-wise division circuit fed eight bits at a time from two 32-bit reads (Lin & Costello 2004,
+   * ch. 5), with u copied to out (one word every n entries) and, with `parity`, the remainder after it, four
+   * bits to a 32-bit write. The last remainder stays in `reg`. Returns the OR of what was read: a non-bit
+   * shows outside 0x01010101.
    */
-  private divide(src: Bits, from: number, out: Bits, to: number): number {
-    const { words, table, reg, k } = this;
-    reg.fill(0);
+  private divideEach(src: Bits, stride: number, out: Bits, count: number, parity: boolean): number {
+    const { k, n, r, reg, table } = this;
+    const sv = byteView(src);
+    const ov = byteView(out);
+    // Leading zero bits leave a zero register unchanged, so the first k mod 8 bits make a byte of their own.
+    const head = k & 7;
+    // A register of one word (r ≤ 32, most codes) is stepped in a local; wider ones through shiftIn.
+    const narrow = this.words === 1;
     let seen = 0;
-    // Leading zero bits leave a zero register unchanged, so the first byte takes the k mod 8 leftover bits.
-    for (let i = 0, end = k & 7 || 8; i < k; end += 8) {
+    for (let i = 0, from = 0, to = 0; i < count; i++, from += stride, to += n) {
+      reg.fill(0);
       let byte = 0;
-      for (; i < end; i++) {
-        const b = src[from + i]!;
-        out[to + i] = b;
+      for (let j = 0; j < head; j++) {
+        const b = src[from + j]!;
+        out[to + j] = b;
         seen |= b;
         byte = (byte << 1) | b;
       }
       // The mask keeps a non-bit inside the table; such input is rejected by the caller.
-      const row = (((reg[0]! >>> 24) ^ byte) & 255) * words;
-      for (let w = 0; w < words - 1; w++) reg[w] = ((reg[w]! << 8) | (reg[w + 1]! >>> 24)) ^ table[row + w]!;
-      reg[words - 1] = (reg[words - 1]! << 8) ^ table[row + words - 1]!;
+      if (head > 0) this.shiftIn(byte & 255);
+      let low = reg[0]!;
+      for (let f = from + head, t = to + head, end = from + k; f < end; f += 8, t += 8) {
+        const hi = sv.getUint32(f, true);
+        const lo = sv.getUint32(f + 4, true);
+        ov.setUint32(t, hi, true);
+        ov.setUint32(t + 4, lo, true);
+        seen |= hi | lo;
+        const v = (gather(hi) << 4) | gather(lo);
+        if (narrow) low = (low << 8) ^ table[(low >>> 24) ^ v]!;
+        else this.shiftIn(v);
+      }
+      if (narrow) reg[0] = low;
+      if (!parity) continue;
+      let j = 0;
+      for (; j + 4 <= r; j += 4) ov.setUint32(to + k + j, spread[(reg[j >>> 5]! >>> (28 - (j & 31))) & 15]!, true);
+      for (; j < r; j++) out[to + k + j] = (reg[j >>> 5]! >>> (31 - (j & 31))) & 1;
     }
-    return seen;
-  }
-
-  /** Writes the systematic codeword of the k bits at src[from..] to out[to..]; returns the OR of the bits read. */
-  private encodeAt(src: Bits, from: number, out: Bits, to: number): number {
-    const seen = this.divide(src, from, out, to);
-    const { reg, r, k } = this;
-    for (let j = 0; j < r; j++) out[to + k + j] = (reg[j >>> 5]! >>> (31 - (j & 31))) & 1;
     return seen;
   }
 
   /** Systematic encoding c(x) = x^(n−k)·m(x) + (x^(n−k)·m(x) mod g(x)) with a byte-wise division circuit (Lin & Costello 2004, ch. 5). */
   encode(message: Word): Bits {
+    const u = checkBinaryWord(message, this.k, "message", this.name);
     const out = new Uint8Array(this.n);
-    this.encodeAt(checkBinaryWord(message, this.k, "message", this.name), 0, out, 0);
+    this.divideEach(u, this.k, out, 1, true);
     return out;
   }
 
   /** encode for `count` messages stored back to back, by the same byte-wise division circuit, validated once. */
   encodeBatch(messages: Word, count: number): Bits {
-    const { k, n } = this;
-    const m = checkBinaryBatch(messages, count, k, this.name);
-    const out = new Uint8Array(count * n);
-    let seen = 0;
-    for (let i = 0; i < count; i++) seen |= this.encodeAt(m, i * k, out, i * n);
-    if (seen > 1) throw firstNonBit(m, k);
+    const m = checkBinaryBatch(messages, count, this.k, this.name);
+    const out = new Uint8Array(count * this.n);
+    if (this.divideEach(m, this.k, out, count, true) & NON_BITS) throw firstNonBit(m, this.k);
     return out;
   }
 
   /**
    * Bounded-distance decoding up to t errors: syndromes S_j = r(α^j) = (r mod g)(α^j), j = 1..2t, with
-   * S_2j = S_j², Berlekamp–Massey for Λ(x), Chien search for its roots; failure when deg Λ > t, deg Λ ≠ L,
-   * or Λ does not have deg Λ distinct roots among the code's positions (Lin & Costello 2004, ch. 6).
+   * S_2j = S_j², Berlekamp's algorithm for Λ(x), its roots in closed form for deg Λ ≤ 2 and by Chien search
+   * above; failure when deg Λ > t, deg Λ ≠ L, or Λ does not have deg Λ distinct roots among the code's
+   * positions (Lin & Costello 2004, ch. 6). A zero remainder returns at once.
    */
   decode(received: Word, erasures?: number[]): DecodeResult {
     const { field, r, k, n, t, reg } = this;
     const w = received instanceof Uint8Array && received.length === n ? received : checkBinaryWord(received, n, "received", this.name);
-    const codeword = new Uint8Array(n);
-    let seen = this.divide(w, 0, codeword, 0);
+    // The codeword starts as a copy of the word; the syndrome goes at n + k (see outcome).
+    const buffer = new Uint8Array(n + k + r);
+    let seen = this.divideEach(w, n, buffer, 1, false);
     // r(x) mod g(x) = (x^r·u(x) mod g(x)) + received parity, for u the first k bits.
-    const syndrome = new Uint8Array(r);
     let nonzero = 0;
-    for (let j = 0; j < r; j++) {
+    for (let j = 0, at = n + k; j < r; j++) {
       const b = w[k + j]!;
-      codeword[k + j] = b;
+      buffer[k + j] = b;
       seen |= b;
       const bit = ((reg[j >>> 5]! >>> (31 - (j & 31))) & 1) ^ b;
-      syndrome[j] = bit;
+      buffer[at + j] = bit;
       nonzero |= bit;
     }
-    if (seen > 1) checkBinaryWord(w, n, "received", this.name);
+    if (seen & NON_BITS) checkBinaryWord(w, n, "received", this.name);
     rejectErasures(erasures, this.name);
-    if (nonzero === 0) return outcome(codeword, k, syndrome, false, []);
+    if (nonzero === 0) return outcome(buffer, n, k, false, []);
 
     const { expTable: exp, order } = field;
     // S[j − 1] = S_j; g(α^j) = 0 for j ≤ 2t, so the remainder gives the same values as r(x).
     // Remainder bit i is the coefficient of x^(r−1−i), so its term is α^((r−1−i)·j), stepped down by j.
-    const s = this.sums;
+    const scratch = (this.scratch ??= {
+      sums: new Uint16Array(2 * t),
+      lambda: new Uint16Array(2 * t + 1),
+      prev: new Uint16Array(2 * t + 1),
+      spare: new Uint16Array(2 * t + 1),
+    });
+    const s = scratch.sums;
     for (let j = 1; j < 2 * t; j += 2) {
       let v = 0;
-      for (let i = 0, e = ((r - 1) * j) % order; i < r; i++) {
-        if (syndrome[i]) v ^= exp[e]!;
+      for (let i = n + k, end = i + r, e = ((r - 1) * j) % order; i < end; i++) {
+        if (buffer[i]) v ^= exp[e]!;
         e -= j;
         if (e < 0) e += order;
       }
@@ -235,19 +330,69 @@ class Bch implements BchCode {
     }
     for (let j = 2; j <= 2 * t; j += 2) s[j - 1] = field.mul(s[j / 2 - 1]!, s[j / 2 - 1]!);
 
-    const { locator, length } = polym.berlekampMassey(field, s);
+    const length = this.binaryBerlekamp(scratch);
+    const locator = scratch.lambda;
     const deg = polym.degree(locator);
-    if (length > t) return outcome(codeword, k, syndrome, true, [], `more than t = ${t} errors: the shortest error-locating LFSR has length ${length}`);
-    if (deg !== length) return outcome(codeword, k, syndrome, true, [], `uncorrectable: the error locator has degree ${deg} but LFSR length ${length}`);
-    const roots = polym.chienSearch(field, locator, n);
+    if (length > t) return outcome(buffer, n, k, true, [], `more than t = ${t} errors: the shortest error-locating LFSR has length ${length}`);
+    if (deg !== length) return outcome(buffer, n, k, true, [], `uncorrectable: the error locator has degree ${deg} but LFSR length ${length}`);
+    const roots = deg <= 2 ? smallLocatorRoots(field, (this.quadratic ??= quadraticSolutions(field)), locator, n) : polym.chienSearch(field, locator, n);
     if (roots.length !== deg) {
-      return outcome(codeword, k, syndrome, true, [], `uncorrectable: the error locator of degree ${deg} has ${roots.length} distinct roots among the ${n} positions`);
+      return outcome(buffer, n, k, true, [], `uncorrectable: the error locator of degree ${deg} has ${roots.length} distinct roots among the ${n} positions`);
     }
     // With deg Λ ≤ t distinct roots, S_2j = S_j² forces every error value to be 1, so flipping these
     // bits always yields a codeword: no separate syndrome re-check is needed.
-    const positions = roots.map((p) => n - 1 - p).sort((a, b) => a - b);
-    for (const i of positions) codeword[i]! ^= 1;
-    return outcome(codeword, k, syndrome, false, positions);
+    // Roots come ascending, so their positions n − 1 − p come out ascending backwards.
+    const positions: number[] = [];
+    for (let i = roots.length - 1; i >= 0; i--) positions.push(n - 1 - roots[i]!);
+    for (const i of positions) buffer[i]! ^= 1;
+    return outcome(buffer, n, k, false, positions);
+  }
+
+  /**
+   * Berlekamp's algorithm for binary BCH codes: the shortest LFSR Λ(x) = 1 + Λ_1 x + … + Λ_L x^L generating
+   * S_1..S_2t, stepping through the odd syndromes only, since S_2j = S_j² makes every other discrepancy zero;
+   * so the same Λ and L as the general Berlekamp–Massey (polym.berlekampMassey) in t steps, with no
+   * allocation (Berlekamp 1968; Lin & Costello 2004, ch. 6). Leaves Λ in scratch.lambda and returns L.
+   */
+  private binaryBerlekamp(scratch: DecoderScratch): number {
+    const { expTable: exp, logTable: log, order } = this.field;
+    const { sums: s, lambda: c } = scratch;
+    let { prev: b, spare } = scratch;
+    const size = c.length;
+    c.fill(0);
+    b.fill(0);
+    c[0] = 1;
+    b[0] = 1;
+    let length = 0;
+    let shift = 1;
+    let last = 1;
+    for (let r = 0; r < s.length; r += 2) {
+      let d = s[r]!;
+      for (let i = 1; i <= length; i++) {
+        const ci = c[i]!;
+        const si = s[r - i]!;
+        if (ci !== 0 && si !== 0) d ^= exp[log[ci]! + log[si]!]!;
+      }
+      if (d !== 0) {
+        let scale = log[d]! + order - log[last]!;
+        if (scale >= order) scale -= order;
+        const lengthens = 2 * length <= r;
+        if (lengthens) spare.set(c);
+        // Λ ← Λ − (d / d_last)·x^shift·B
+        for (let i = 0; i + shift < size; i++) if (b[i] !== 0) c[i + shift]! ^= exp[scale + log[b[i]!]!]!;
+        if (lengthens) {
+          length = r + 1 - length;
+          const old = b;
+          b = spare;
+          spare = old;
+          last = d;
+          shift = 0;
+        }
+      }
+      // This step and the next, whose discrepancy is zero.
+      shift += 2;
+    }
+    return length;
   }
 
   /** Systematic k × n generator matrix: row i = x^(k−1−i+r) + (x^(k−1−i+r) mod g(x)), using x^(e+1) mod g = x·(x^e mod g) (Lin & Costello 2004, ch. 5). */

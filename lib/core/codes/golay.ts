@@ -1,7 +1,7 @@
 import { type Bits, popcount32 } from "../bits";
 import { checkBinaryWord, rejectErasures } from "../gf2";
 import { InputError } from "../errors";
-import { checkBinaryBatch, firstNonBit } from "./hamming";
+import { byteView, checkBinaryBatch, firstNonBit, NON_BITS, nibble, SPREAD } from "./hamming";
 import type { BlockCode, DecodeResult, Word } from "./types";
 
 /** g(x) = x^11 + x^10 + x^6 + x^5 + x^4 + x^2 + 1 (octal 6165; its reciprocal, octal 5343, gives an equivalent code), bit i = coefficient of x^i. */
@@ -14,11 +14,15 @@ interface Tables {
   column: Int32Array;
   /** Coset leader per syndrome as a bit mask (bit p = position p), −1 where the leader has weight 4. */
   leader: Int32Array;
-  /** parity[v]: the n − 12 bits after message v (bit 11 of v = position 0), the first in the most significant place. */
-  parity: Int32Array;
+  /** tail[v]: the last 12 bits of the codeword of message v (bit 11 of v = position 0), bit n − 1 − q = position q: the parity bits, and for (23,12) the last message bit before them. */
+  tail: Int32Array;
 }
 
 const cache = new Map<boolean, Tables>();
+
+// Local bindings of the shared word helpers: a transpiled import can be a getter, too slow to call per word.
+const gather = nibble;
+const spread = SPREAD;
 
 function tables(extended: boolean): Tables {
   const hit = cache.get(extended);
@@ -43,15 +47,16 @@ function tables(extended: boolean): Tables {
       for (let c = b + 1; c < n; c++) leader[column[a]! ^ column[b]! ^ column[c]!] = (1 << a) | (1 << b) | (1 << c);
     }
   }
-  // The parity bits are linear in the message: each entry is an earlier one XOR the share of v's lowest set bit.
-  const parity = new Int32Array(1 << K);
+  // The tail is linear in the message: each entry is an earlier one XOR the share of v's lowest set bit p.
+  const tail = new Int32Array(1 << K);
   for (let v = 1; v < 1 << K; v++) {
     const p = K - 1 - (31 - Math.clz32(v & -v));
     const rem = column23[p]!;
-    // Extended: append the overall parity, 1 for the message bit ⊕ the parity of its remainder.
-    parity[v] = parity[v & (v - 1)]! ^ (extended ? (rem << 1) | (1 ^ (popcount32(rem) & 1)) : rem);
+    // Extended: the overall parity follows, 1 for the message bit ⊕ the parity of its remainder; plain: bit 11 itself leads.
+    const share = extended ? (rem << 1) | (1 ^ (popcount32(rem) & 1)) : p === K - 1 ? rem | (1 << 11) : rem;
+    tail[v] = tail[v & (v - 1)]! ^ share;
   }
-  const t = { n, column, leader, parity };
+  const t = { n, column, leader, tail };
   cache.set(extended, t);
   return t;
 }
@@ -62,12 +67,13 @@ function tables(extended: boolean): Tables {
  * encoding with g(x) = x^11 + x^10 + x^6 + x^5 + x^4 + x^2 + 1: bit p of the 23-bit codeword is the
  * coefficient of x^(22−p), so the 12 message bits come first and the 11 parity bits, the remainder of
  * m(x)·x^11 divided by g(x), follow highest degree first; (24,12) appends the overall parity bit.
- * Encoding looks the parity bits up in a 4096-entry table. Decoding by syndrome table (2^11 or 2^12 entries) corrects up to 3 errors; in (24,12) a syndrome of
- * a weight-4 coset (6 equally near codewords) is reported as failure and nothing is changed.
+ * Encoding looks the parity bits up in a 4096-entry table. Decoding by syndrome table (2^11 or 2^12
+ * entries) corrects up to 3 errors; in (24,12) a syndrome of a weight-4 coset (6 equally near codewords)
+ * is reported as failure and nothing is changed.
  */
 export function golay(extended = false): BlockCode {
   if (typeof extended !== "boolean") throw new InputError("extended must be true or false", ["extended"]);
-  const { n, column, leader, parity } = tables(extended);
+  const { n, column, leader, tail } = tables(extended);
   const r = n - K;
   const name = extended ? "extended Golay (24,12)" : "Golay (23,12)";
   const syndromeOf = (w: Bits): number => {
@@ -75,24 +81,34 @@ export function golay(extended = false): BlockCode {
     for (let p = 0; p < n; p++) if (w[p]) s ^= column[p]!;
     return s;
   };
-  /** Writes the codeword of the 12 bits at src[from..] to out[to..] from the parity table; returns the OR of the message entries, > 1 for a non-bit. */
-  const encodeAt = (src: Bits, from: number, out: Bits, to: number): number => {
-    let v = 0;
+  /**
+   * Writes the codewords of `count` messages stored back to back in src to out: each message is read and
+   * copied as three 32-bit words and its last 12 codeword bits come from the 4096-entry tail table, written
+   * four to a word (the first such write repeats the (23,12) code's last message bit). Returns the OR of what
+   * was read: a non-bit shows outside 0x01010101.
+   */
+  const encodeRun = (src: Bits, out: Bits, count: number): number => {
+    const sv = byteView(src);
+    const ov = byteView(out);
     let seen = 0;
-    for (let p = 0; p < K; p++) {
-      const b = src[from + p]!;
-      out[to + p] = b;
-      seen |= b;
-      v = (v << 1) | b;
+    for (let i = 0, f = 0, t = 0; i < count; i++, f += K, t += n) {
+      const w0 = sv.getUint32(f, true);
+      const w1 = sv.getUint32(f + 4, true);
+      const w2 = sv.getUint32(f + 8, true);
+      ov.setUint32(t, w0, true);
+      ov.setUint32(t + 4, w1, true);
+      ov.setUint32(t + 8, w2, true);
+      seen |= w0 | w1 | w2;
+      const bits = tail[(gather(w0) << 8) | (gather(w1) << 4) | gather(w2)]!;
+      ov.setUint32(t + n - 12, spread[bits >>> 8]!, true);
+      ov.setUint32(t + n - 8, spread[(bits >>> 4) & 15]!, true);
+      ov.setUint32(t + n - 4, spread[bits & 15]!, true);
     }
-    // The mask keeps a non-bit inside the table; such a batch is rejected afterwards.
-    const bits = parity[v & ((1 << K) - 1)]!;
-    for (let j = 0; j < r; j++) out[to + K + j] = (bits >>> (r - 1 - j)) & 1;
     return seen;
   };
   const encode = (message: Word): Bits => {
     const c = new Uint8Array(n);
-    encodeAt(checkBinaryWord(message, K, "message", name), 0, c, 0);
+    encodeRun(checkBinaryWord(message, K, "message", name), c, 1);
     return c;
   };
   return {
@@ -112,9 +128,7 @@ export function golay(extended = false): BlockCode {
     encodeBatch(messages: Word, count: number): Bits {
       const m = checkBinaryBatch(messages, count, K, name);
       const out = new Uint8Array(count * n);
-      let seen = 0;
-      for (let i = 0; i < count; i++) seen |= encodeAt(m, i * K, out, i * n);
-      if (seen > 1) throw firstNonBit(m, K);
+      if (encodeRun(m, out, count) & NON_BITS) throw firstNonBit(m, K);
       return out;
     },
     decode(received: Word, erasures?: number[]): DecodeResult {

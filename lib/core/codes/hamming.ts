@@ -9,8 +9,8 @@ export const MAX_HAMMING_R = 16;
 const MAX_GENERATOR_N = 1024;
 
 /**
- * Checks a batch of `count` binary messages of k bits each, stored back to back: type, count and total
- * length. The bits themselves are checked by the encoder's loop, which reports them through firstNonBit.
+ * Checks the shape of a batch of `count` binary messages of k bits each, stored back to back: the count,
+ * the type and the total length. The encoder's loop checks the bits and reports one through firstNonBit.
  * Shared by the binary families' encodeBatch.
  */
 export function checkBinaryBatch(messages: Word, count: number, k: number, codeName: string): Bits {
@@ -20,35 +20,56 @@ export function checkBinaryBatch(messages: Word, count: number, k: number, codeN
   return messages;
 }
 
-/** The InputError for the first entry of a batch of k-bit messages that is not 0 or 1. */
+/** The InputError for the first entry of a batch of k-bit messages that is not 0 or 1 (call only when there is one). */
 export function firstNonBit(messages: Bits, k: number): InputError {
   const f = messages.findIndex((v) => v > 1);
   const j = Math.floor(f / k);
   return new InputError(`message ${j} bit ${f - j * k} is ${messages[f]}; bits are 0 or 1`, ["messages", j, f - j * k]);
 }
 
+/*
+ * Word-at-a-time access to 0/1 bytes, shared by the binary families' encoders. A DataView with explicit
+ * little-endian order reads four entries as one 32-bit word on any platform: entry b is byte b.
+ */
+
+/** A DataView over a word's own bytes. */
+export const byteView = (w: Bits) => new DataView(w.buffer, w.byteOffset, w.byteLength);
+
+/** The four 0/1 bytes of a little-endian 32-bit word as a nibble, byte 0 in bit 3: one multiply gathers bit 8b to bit 27 − b, no carries. */
+export const nibble = (w: number) => (Math.imul(w, 0x08040201) >>> 24) & 15;
+
+/** The bits that only a byte other than 0 or 1 can set in the OR of the 32-bit words read. */
+export const NON_BITS = ~0x01010101;
+
+/** SPREAD[v]: the nibble v as four 0/1 bytes of a little-endian 32-bit word, bit 3 in byte 0 (the inverse of nibble). */
+export const SPREAD = Uint32Array.from({ length: 16 }, (_, v) => ((v >>> 3) & 1) | (((v >>> 2) & 1) << 8) | (((v >>> 1) & 1) << 16) | ((v & 1) << 24));
+
 const nibbleTables = new Map<number, Int32Array>();
 
 /**
- * table[16c + v]: the parity of the message nibble v at positions 4c..4c+3 (bit 3 of v = position 4c;
- * positions ≥ k count as 0), as (syndrome part << 1) | (its share of the extended code's overall parity).
- * Both parts are linear in the message, so a word's parity is the XOR of its nibbles' entries. Cached by r.
+ * table[16c + v]: what the message nibble v at positions 4c..4c+3 (bit 3 of v = position 4c) adds to the
+ * codeword's tail, the integer whose bit n − 1 − q is codeword bit q for the last 4·⌈(n − k)/4⌉ positions q:
+ * its parity bits and, for the last few message positions, the bit itself. Every part is linear in the
+ * message, so a word's tail is the XOR of its nibbles' entries. Cached by n (r and extended).
  */
-function nibbleTable(r: number, column: Int32Array, k: number): Int32Array {
-  const hit = nibbleTables.get(r);
+function nibbleTable(extended: boolean, column: Int32Array, k: number, n: number): Int32Array {
+  const hit = nibbleTables.get(n);
   if (hit) return hit;
-  // Overall parity = parity(message) ⊕ parity(syndrome bits), so a message bit with column s adds 1 ⊕ parity(s).
-  const share = (p: number) => (column[p]! << 1) | (1 ^ (popcount32(column[p]!) & 1));
-  const chunks = (k + 3) >>> 2;
-  const table = new Int32Array(16 * chunks);
-  for (let c = 0; c < chunks; c++) {
+  const first = n - 4 * Math.ceil((n - k) / 4);
+  const share = (p: number): number => {
+    if (p >= k) return 0;
+    // Overall parity = parity(message) ⊕ parity(syndrome bits), so a message bit with column s adds 1 ⊕ parity(s).
+    const parity = extended ? (column[p]! << 1) | (1 ^ (popcount32(column[p]!) & 1)) : column[p]!;
+    return p >= first ? parity | (1 << (n - 1 - p)) : parity;
+  };
+  const table = new Int32Array(16 * Math.ceil(k / 4));
+  for (let c = 0; c < table.length / 16; c++) {
     for (let v = 1; v < 16; v++) {
       const b = 31 - Math.clz32(v & -v); // lowest set bit of v: position 4c + 3 − b
-      const p = 4 * c + 3 - b;
-      table[16 * c + v] = table[16 * c + (v & (v - 1))]! ^ (p < k ? share(p) : 0);
+      table[16 * c + v] = table[16 * c + (v & (v - 1))]! ^ share(4 * c + 3 - b);
     }
   }
-  nibbleTables.set(r, table);
+  nibbleTables.set(n, table);
   return table;
 }
 
@@ -60,8 +81,8 @@ function nibbleTable(r: number, column: Int32Array, k: number): Int32Array {
  * not a power of two, parity bit j (position k + j) gets 2^(r−1−j). The syndrome is H·rᵀ written
  * most significant bit first (plus, extended, the overall parity of all n bits as a last bit), so a
  * single error at position p gives the column number of p. Encoding XORs one parity-table entry per
- * message nibble. Decoding corrects one error by a syndrome
- * table; extended, a non-zero syndrome with even overall parity is a double error: failure, nothing changed.
+ * message nibble. Decoding corrects one error by a syndrome table; extended, a non-zero syndrome with
+ * even overall parity is a double error: failure, nothing changed.
  */
 export function hamming(r: number, extended = false): BlockCode {
   if (!Number.isInteger(r) || r < 2 || r > MAX_HAMMING_R) throw new InputError(`r must be an integer from 2 to ${MAX_HAMMING_R}; got ${r}`, ["r"]);
@@ -93,49 +114,69 @@ export function hamming(r: number, extended = false): BlockCode {
     return x;
   };
 
-  const table = nibbleTable(r, column, k);
-  const full = k >>> 2;
-  const tail = k & 3;
+  const table = nibbleTable(extended, column, k, n);
+  // The parity bits are written in 4-bit groups from the codeword's end (the first group written may also
+  // hold the last message bits). Only (3,1) is too short for a 4-byte write and goes bit by bit.
+  const parityBits = n - k;
+  const groups = Math.ceil(parityBits / 4);
+  const grouped = n >= 4 * groups;
   /**
-   * Writes the codeword of the k bits at src[from..] to out[to..] by nibble-table lookup (the syndrome is
-   * linear, so it is the XOR of per-nibble parts); returns the OR of the message entries, > 1 for a non-bit.
+   * Writes the codewords of `count` messages stored back to back in src to out, column by column over the
+   * batch so that every inner loop is long and branch-free: four message bits at a time are read and copied
+   * as one 32-bit word and their share of the codeword's tail looked up in the nibble table, then the tail
+   * is written four bits to a word; with r = 3 that is a single pass. Returns the OR of what was read: a
+   * non-bit shows outside 0x01010101.
    */
-  const encodeAt = (src: Bits, from: number, out: Bits, to: number): number => {
-    let acc = 0;
+  const encodeRun = (src: Bits, out: Bits, count: number): number => {
+    const sv = byteView(src);
+    const ov = byteView(out);
     let seen = 0;
-    let t = 0;
-    let p = 0;
-    for (let c = 0; c < full; c++, p += 4, t += 16) {
-      const b0 = src[from + p]!;
-      const b1 = src[from + p + 1]!;
-      const b2 = src[from + p + 2]!;
-      const b3 = src[from + p + 3]!;
-      out[to + p] = b0;
-      out[to + p + 1] = b1;
-      out[to + p + 2] = b2;
-      out[to + p + 3] = b3;
-      seen |= b0 | b1 | b2 | b3;
-      acc ^= table[t + ((b0 << 3) | (b1 << 2) | (b2 << 1) | b3)]!;
-    }
-    if (tail !== 0) {
-      let v = 0;
-      for (; p < k; p++) {
-        const bit = src[from + p]!;
-        out[to + p] = bit;
-        seen |= bit;
-        v = (v << 1) | bit;
+    if (k === 4) {
+      // r = 3: a message is one nibble and its tail one group, so a codeword is one read and two writes.
+      for (let i = 0, f = 0, t = 0; i < count; i++, f += 4, t += n) {
+        const w = sv.getUint32(f, true);
+        ov.setUint32(t, w, true);
+        seen |= w;
+        ov.setUint32(t + n - 4, SPREAD[table[nibble(w)]!]!, true);
       }
-      acc ^= table[t + (v << (4 - tail))]!;
+      return seen;
     }
-    for (let j = 0; j < r; j++) out[to + k + j] = (acc >>> (r - j)) & 1;
-    if (extended) out[to + base] = acc & 1;
+    const tail = new Int32Array(count);
+    let p = 0;
+    for (; p + 4 <= k; p += 4) {
+      const row = p << 2;
+      for (let i = 0, f = p; i < count; i++, f += k) {
+        const w = sv.getUint32(f, true);
+        ov.setUint32(f + i * parityBits, w, true);
+        seen |= w;
+        tail[i]! ^= table[row | nibble(w)]!;
+      }
+    }
+    // The last k mod 4 bits, one at a time: the table is linear, so single-bit entries XOR to the nibble's.
+    for (let b = 3; p < k; p++, b--) {
+      const row = (p >>> 2) << 4;
+      for (let i = 0, f = p; i < count; i++, f += k) {
+        const bit = src[f]!;
+        out[f + i * parityBits] = bit;
+        seen |= bit;
+        tail[i]! ^= table[row | ((bit & 1) << b)]!;
+      }
+    }
+    if (grouped) {
+      for (let g = 0; g < groups; g++) {
+        for (let i = 0, t = n - 4 - 4 * g; i < count; i++, t += n) ov.setUint32(t, SPREAD[(tail[i]! >>> (4 * g)) & 15]!, true);
+      }
+    } else {
+      for (let j = 0; j < parityBits; j++) {
+        for (let i = 0, t = k + j; i < count; i++, t += n) out[t] = (tail[i]! >>> (parityBits - 1 - j)) & 1;
+      }
+    }
     return seen;
   };
 
   const encode = (message: Word): Bits => {
-    const m = checkBinaryWord(message, k, "message", name);
     const c = new Uint8Array(n);
-    encodeAt(m, 0, c, 0);
+    encodeRun(checkBinaryWord(message, k, "message", name), c, 1);
     return c;
   };
 
@@ -157,10 +198,8 @@ export function hamming(r: number, extended = false): BlockCode {
     encodeBatch(messages: Word, count: number): Bits {
       const m = checkBinaryBatch(messages, count, k, name);
       const out = new Uint8Array(count * n);
-      let seen = 0;
-      for (let i = 0; i < count; i++) seen |= encodeAt(m, i * k, out, i * n);
-      // Checked after the fact so the loop stays branch-free; a non-bit only spoils a result that is thrown away.
-      if (seen > 1) throw firstNonBit(m, k);
+      // Checked after the loop so that it stays branch-free; a non-bit only spoils a result that is thrown away.
+      if (encodeRun(m, out, count) & NON_BITS) throw firstNonBit(m, k);
       return out;
     },
     decode(received: Word, erasures?: number[]): DecodeResult {
