@@ -69,12 +69,12 @@ export default function Home() {
               >
                 Open the API reference
               </a>
-              <a
+              <Link
                 href="/console"
                 className="inline-flex items-center justify-center gap-2 rounded-md border border-rule bg-surface px-5 py-2.5 font-medium text-ink no-underline hover:bg-sunken"
               >
                 Sign in to the console
-              </a>
+              </Link>
             </div>
           </div>
           <SyndromeFigure />

@@ -31,9 +31,9 @@ export function SiteHeader() {
               </Link>
             </li>
             <li>
-              <a href="/console" className={navLink}>
+              <Link href="/console" className={navLink}>
                 Console
-              </a>
+              </Link>
             </li>
           </ul>
         </nav>

@@ -72,7 +72,7 @@ function OrgSwitcher({ current }: { current: string | undefined }) {
         ) : null}
         {orgs.map((o) => (
           <option key={o.slug} value={o.slug}>
-            {o.name} ({o.role})
+            {o.name}
           </option>
         ))}
       </select>

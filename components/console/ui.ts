@@ -1,11 +1,13 @@
 /** Class strings shared by the console's controls: one look for every button, input and panel. */
 
 const btn =
-  "inline-flex items-center justify-center gap-2 rounded-md px-3.5 py-2 text-sm font-medium no-underline transition-[filter,background-color] disabled:cursor-not-allowed disabled:opacity-60";
+  "inline-flex items-center justify-center gap-2 rounded-md px-3.5 py-2 text-sm font-medium whitespace-nowrap no-underline transition-[filter,background-color] disabled:cursor-not-allowed disabled:opacity-60";
 
 export const buttonPrimary = `${btn} bg-accent text-accent-ink shadow-sm hover:brightness-110`;
 export const buttonSecondary = `${btn} border border-ink-2/50 bg-surface text-ink hover:bg-sunken`;
 export const buttonQuiet = `${btn} text-ink-2 hover:bg-sunken hover:text-ink`;
+/** A quiet button for a destructive action (Remove, Revoke) inside a list. */
+export const buttonQuietDanger = `${btn} text-[#a3261c] hover:bg-[#f7e1dd] dark:text-[#f5a196] dark:hover:bg-[#3a1714]`;
 /** Destructive: a brick red of our own, AA on white text in light and on dark text in dark mode. */
 export const buttonDanger = `${btn} bg-[#a3261c] text-white shadow-sm hover:brightness-110 dark:bg-[#f08a7e] dark:text-[#1b0b08]`;
 export const buttonSmall = "px-2.5 py-1 text-[0.8125rem]";

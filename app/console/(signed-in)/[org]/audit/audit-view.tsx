@@ -1,0 +1,253 @@
+"use client";
+
+import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import { useId, useState } from "react";
+import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
+import { PageHeader } from "@/components/console/page-header";
+import { Empty, LoadError, Loading } from "@/components/console/states";
+import { buttonSecondary, buttonSmall, labelBase, panel, selectBase, tableHead } from "@/components/console/ui";
+import { consoleApi } from "@/lib/console-client/api";
+import { formatDateTime, formatRelative } from "@/lib/console-client/format";
+import { queryKeys } from "@/lib/console-client/query-keys";
+import type { AuditEntry } from "@/lib/console-client/types";
+
+/** Every action the console and the operator CLI write, in plain words. */
+const ACTIONS: Record<string, string> = {
+  "key.created": "created a key",
+  "key.rotated": "rotated a key",
+  "key.revoked": "revoked a key",
+  "member.invited": "invited someone",
+  "invitation.revoked": "withdrew an invitation",
+  "member.joined": "joined",
+  "member.role_changed": "changed a role",
+  "member.removed": "removed a member",
+  "org.ownership_transferred": "handed over ownership",
+};
+
+const PAGE_SIZES = [25, 50, 100] as const;
+
+function Actor({ a }: { a: AuditEntry["actor"] }) {
+  if (a.kind === "cli") return <span>operator CLI</span>;
+  if (a.kind === "system") return <span className="text-ink-2">system</span>;
+  return <span className="break-all">{a.email ?? (a.userId !== undefined ? `user #${a.userId}` : "a user")}</span>;
+}
+
+const asRecord = (v: unknown): Record<string, unknown> => (typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
+
+function Target({ e }: { e: AuditEntry }) {
+  const d = asRecord(e.details);
+  if (e.targetType === "api_key")
+    return (
+      <span>
+        key {typeof d.prefix === "string" ? <code className="font-mono text-xs">{d.prefix}…</code> : `#${e.targetId}`}
+      </span>
+    );
+  if (e.targetType === "user" || e.targetType === "invitation")
+    return <span className="break-all">{typeof d.email === "string" ? d.email : `${e.targetType} #${e.targetId}`}</span>;
+  if (!e.targetType) return <span className="text-ink-2">—</span>;
+  return (
+    <span>
+      {e.targetType} {e.targetId !== null ? `#${e.targetId}` : ""}
+    </span>
+  );
+}
+
+/** The rest of the details, as short name: value pairs (the prefix and e-mail already show as the target). */
+function Details({ e }: { e: AuditEntry }) {
+  const pairs = Object.entries(asRecord(e.details)).filter(([k, v]) => v !== null && v !== undefined && !(k === "prefix" || (k === "email" && e.targetType !== "api_key")));
+  if (pairs.length === 0) return <span className="text-ink-2">—</span>;
+  return (
+    <dl className="flex flex-col gap-0.5 text-xs">
+      {pairs.map(([k, v]) => (
+        <div key={k} className="flex flex-wrap gap-x-1.5">
+          <dt className="text-ink-2">{k}</dt>
+          <dd className="font-mono break-all">{typeof v === "string" && /^\d{4}-\d\d-\d\dT/.test(v) ? formatDateTime(v) : Array.isArray(v) ? v.join(", ") : String(typeof v === "object" ? JSON.stringify(v) : v)}</dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+function Ledger({ org }: { org: string }) {
+  const [actor, setActor] = useState("");
+  const [action, setAction] = useState("");
+  const [limit, setLimit] = useState<number>(25);
+  // Cursor pagination: the cursors of the pages visited so far, newest page first.
+  const [cursors, setCursors] = useState<(string | undefined)[]>([undefined]);
+  const page = cursors.length - 1;
+  const cursor = cursors[page];
+  const ids = { actor: useId(), action: useId(), limit: useId() };
+
+  const members = useQuery({ queryKey: queryKeys.members(org), queryFn: ({ signal }) => consoleApi.members(org, signal) });
+  const filters = { actor: actor || undefined, action: action || undefined, cursor, limit };
+  const audit = useQuery({
+    queryKey: queryKeys.audit(org, filters),
+    queryFn: ({ signal }) => consoleApi.audit(org, filters, signal),
+    placeholderData: keepPreviousData,
+  });
+
+  const restart = () => setCursors([undefined]);
+
+  return (
+    <div className="flex flex-col gap-4">
+      <form className={`${panel} grid gap-3 p-4 sm:grid-cols-[minmax(0,1fr)_minmax(0,1fr)_8rem]`} onSubmit={(e) => e.preventDefault()} aria-label="Filter the ledger">
+        <div>
+          <label htmlFor={ids.actor} className={labelBase}>
+            Who
+          </label>
+          <select
+            id={ids.actor}
+            className={`${selectBase} mt-1`}
+            value={actor}
+            onChange={(e) => {
+              setActor(e.target.value);
+              restart();
+            }}
+          >
+            <option value="">Anyone</option>
+            {(members.data?.members ?? []).map((m) => (
+              <option key={m.userId} value={`user:${m.userId}`}>
+                {m.name ? `${m.name} (${m.email})` : m.email}
+              </option>
+            ))}
+            <option value="cli">Operator CLI</option>
+            <option value="system">System</option>
+          </select>
+        </div>
+        <div>
+          <label htmlFor={ids.action} className={labelBase}>
+            Action
+          </label>
+          <select
+            id={ids.action}
+            className={`${selectBase} mt-1`}
+            value={action}
+            onChange={(e) => {
+              setAction(e.target.value);
+              restart();
+            }}
+          >
+            <option value="">Any action</option>
+            {Object.entries(ACTIONS).map(([code, label]) => (
+              <option key={code} value={code}>
+                {label} ({code})
+              </option>
+            ))}
+          </select>
+        </div>
+        <div>
+          <label htmlFor={ids.limit} className={labelBase}>
+            Per page
+          </label>
+          <select
+            id={ids.limit}
+            className={`${selectBase} mt-1`}
+            value={limit}
+            onChange={(e) => {
+              setLimit(Number(e.target.value));
+              restart();
+            }}
+          >
+            {PAGE_SIZES.map((n) => (
+              <option key={n} value={n}>
+                {n}
+              </option>
+            ))}
+          </select>
+        </div>
+      </form>
+
+      {audit.isPending ? (
+        <Loading label="Loading the ledger" rows={6} />
+      ) : audit.isError ? (
+        <LoadError error={audit.error} onRetry={() => void audit.refetch()} what="the ledger" />
+      ) : audit.data.entries.length === 0 ? (
+        <Empty title={actor || action ? "Nothing matches these filters" : "The ledger is empty"}>
+          <p>{actor || action ? "Try another person or action, or clear the filters." : "Changes to keys and people are written here as they happen."}</p>
+        </Empty>
+      ) : (
+        <div className={`${panel} overflow-hidden`}>
+          <div className="overflow-x-auto">
+            <table className="w-full min-w-[44rem] border-collapse text-sm">
+              <caption className="sr-only">Ledger entries, newest first{page > 0 ? `, page ${page + 1}` : ""}</caption>
+              <thead className={tableHead}>
+                <tr>
+                  <th scope="col" className="px-3 py-2 font-medium">When</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Who</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Did</th>
+                  <th scope="col" className="px-3 py-2 font-medium">To</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Details</th>
+                </tr>
+              </thead>
+              <tbody className={audit.isPlaceholderData ? "opacity-60" : undefined}>
+                {audit.data.entries.map((e) => (
+                  <tr key={e.id} className="border-t border-rule align-top">
+                    <td className="px-3 py-2 whitespace-nowrap">
+                      <time dateTime={e.at} title={formatDateTime(e.at)}>
+                        {formatDateTime(e.at)}
+                      </time>
+                      <span className="block text-xs text-ink-2">{formatRelative(e.at)}</span>
+                    </td>
+                    <td className="px-3 py-2">
+                      <Actor a={e.actor} />
+                    </td>
+                    <td className="px-3 py-2">
+                      <span className="block">{ACTIONS[e.action] ?? e.action}</span>
+                      <code className="font-mono text-xs text-ink-2">{e.action}</code>
+                    </td>
+                    <td className="px-3 py-2">
+                      <Target e={e} />
+                    </td>
+                    <td className="px-3 py-2">
+                      <Details e={e} />
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <div className="flex flex-wrap items-center justify-between gap-2 border-t border-rule bg-sunken/50 px-3 py-2 text-sm text-ink-2">
+            <p aria-live="polite">
+              Page {page + 1} · {audit.data.entries.length} entr{audit.data.entries.length === 1 ? "y" : "ies"}
+              {audit.isFetching ? " · loading…" : ""}
+            </p>
+            <div className="flex gap-2">
+              <button type="button" className={`${buttonSecondary} ${buttonSmall}`} disabled={page === 0} onClick={() => setCursors((c) => c.slice(0, -1))}>
+                Newer
+              </button>
+              <button
+                type="button"
+                className={`${buttonSecondary} ${buttonSmall}`}
+                disabled={!audit.data.nextCursor || audit.isPlaceholderData}
+                onClick={() => {
+                  const next = audit.data.nextCursor;
+                  if (next) setCursors((c) => [...c, next]);
+                }}
+              >
+                Older
+              </button>
+            </div>
+          </div>
+        </div>
+      )}
+    </div>
+  );
+}
+
+/** /console/{org}/audit: owners only. */
+export function AuditView() {
+  const org = useCurrentOrg();
+  return (
+    <SectionGate
+      section="audit"
+      heading={<PageHeader eyebrow="Ledger" title="Activity ledger" />}
+      deniedTitle="The ledger is for owners"
+      denied={<p>Owners see who changed which key or member, and when. Ask an owner if you need an entry looked up.</p>}
+    >
+      <div className="flex flex-col gap-6">
+        <PageHeader eyebrow="Ledger" title="Activity ledger" lead="Who did what, when, to which key or member: every change, newest first. Entries cannot be edited." />
+        <Ledger org={org.slug} />
+      </div>
+    </SectionGate>
+  );
+}

@@ -1,0 +1,56 @@
+import { consoleFetch } from "./fetcher";
+import type {
+  AcceptedInvitation,
+  AuditPage,
+  EndpointInfo,
+  Invitation,
+  IssuedKey,
+  KeyRecord,
+  Me,
+  Member,
+  MembersPayload,
+  NewKeyInput,
+  Role,
+  RotatedKey,
+  TryKey,
+  UsageReport,
+} from "./types";
+
+/** Every console route the pages call, one function each. `org` is the org's slug. */
+
+const orgPath = (org: string) => `/api/console/orgs/${encodeURIComponent(org)}`;
+
+function query(params: Record<string, string | number | undefined>): string {
+  const q = new URLSearchParams();
+  for (const [k, v] of Object.entries(params)) if (v !== undefined && v !== "") q.set(k, String(v));
+  const s = q.toString();
+  return s ? `?${s}` : "";
+}
+
+export const consoleApi = {
+  me: (signal?: AbortSignal) => consoleFetch<Me>("/api/console/me", { signal }),
+  endpoints: (signal?: AbortSignal) => consoleFetch<{ endpoints: EndpointInfo[] }>("/api/console/endpoints", { signal }),
+
+  members: (org: string, signal?: AbortSignal) => consoleFetch<MembersPayload>(`${orgPath(org)}/members`, { signal }),
+  invite: (org: string, body: { email: string; role: Role }) =>
+    consoleFetch<{ invitation: Omit<Invitation, "invitedBy"> }>(`${orgPath(org)}/invitations`, { method: "POST", body }),
+  revokeInvitation: (org: string, id: number) => consoleFetch<unknown>(`${orgPath(org)}/invitations/${id}`, { method: "DELETE" }),
+  changeRole: (org: string, userId: number, role: Role) =>
+    consoleFetch<{ member: Member }>(`${orgPath(org)}/members/${userId}`, { method: "PATCH", body: { role } }),
+  removeMember: (org: string, userId: number) => consoleFetch<{ member: Member }>(`${orgPath(org)}/members/${userId}`, { method: "DELETE" }),
+  transfer: (org: string, userId: number) => consoleFetch<unknown>(`${orgPath(org)}/transfer`, { method: "POST", body: { userId } }),
+  acceptInvitation: (token: string) => consoleFetch<AcceptedInvitation>("/api/console/invitations/accept", { method: "POST", body: { token } }),
+
+  keys: (org: string, signal?: AbortSignal) => consoleFetch<{ keys: KeyRecord[] }>(`${orgPath(org)}/keys`, { signal }),
+  createKey: (org: string, body: NewKeyInput) => consoleFetch<IssuedKey>(`${orgPath(org)}/keys`, { method: "POST", body }),
+  rotateKey: (org: string, id: number, overlapHours: number) =>
+    consoleFetch<RotatedKey>(`${orgPath(org)}/keys/${id}/rotate`, { method: "POST", body: { overlapHours } }),
+  revokeKey: (org: string, id: number) => consoleFetch<{ record: KeyRecord }>(`${orgPath(org)}/keys/${id}/revoke`, { method: "POST" }),
+  tryKey: (org: string) => consoleFetch<TryKey>(`${orgPath(org)}/try-key`, { method: "POST" }),
+
+  usage: (org: string, from: string, to: string, signal?: AbortSignal) => consoleFetch<UsageReport>(`${orgPath(org)}/usage${query({ from, to })}`, { signal }),
+  usageCsvHref: (org: string, from: string, to: string) => `${orgPath(org)}/usage${query({ from, to, format: "csv" })}`,
+
+  audit: (org: string, f: { actor?: string; action?: string; cursor?: string; limit?: number }, signal?: AbortSignal) =>
+    consoleFetch<AuditPage>(`${orgPath(org)}/audit${query({ actor: f.actor, action: f.action, cursor: f.cursor, limit: f.limit })}`, { signal }),
+};

@@ -1,0 +1,11 @@
+/** TanStack Query keys of the console, in one place so that mutations invalidate the right lists. */
+export const queryKeys = {
+  me: ["console", "me"] as const,
+  endpoints: ["console", "endpoints"] as const,
+  org: (org: string) => ["console", "org", org] as const,
+  members: (org: string) => ["console", "org", org, "members"] as const,
+  keys: (org: string) => ["console", "org", org, "keys"] as const,
+  usage: (org: string, from: string, to: string) => ["console", "org", org, "usage", from, to] as const,
+  audit: (org: string, filters: { actor?: string; action?: string; cursor?: string; limit?: number }) =>
+    ["console", "org", org, "audit", filters] as const,
+};

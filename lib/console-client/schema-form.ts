@@ -1,0 +1,315 @@
+import { z } from "zod";
+
+/**
+ * From an endpoint's input JSON Schema to a form: one field per top-level property
+ * (number/integer inputs, enums as selects, booleans as checkboxes, strings as text; arrays,
+ * objects and unions as JSON text), and a zod schema that turns the form's values into the
+ * request and checks it against z.fromJSONSchema of the same JSON Schema.
+ */
+
+type Json = null | boolean | number | string | Json[] | { [k: string]: Json };
+type Schema = Record<string, unknown>;
+export type FormValues = Record<string, string | boolean>;
+type Primitive = string | number | boolean | null;
+
+export type FieldKind = "number" | "integer" | "enum" | "boolean" | "string" | "json";
+
+export interface FieldSpec {
+  name: string;
+  kind: FieldKind;
+  required: boolean;
+  description?: string;
+  /** enum: the allowed values, in the schema's order. */
+  options?: Primitive[];
+  default?: unknown;
+  minimum?: number;
+  maximum?: number;
+  /** json: what the value is ("array", "object", "one of several shapes"). */
+  shape?: string;
+  pattern?: string;
+}
+
+export type FormPlan =
+  | { kind: "fields"; fields: FieldSpec[] }
+  | { kind: "variants"; discriminator: string; variants: { value: string; description?: string; fields: FieldSpec[] }[] }
+  | { kind: "raw" };
+
+const isObj = (v: unknown): v is Schema => typeof v === "object" && v !== null && !Array.isArray(v);
+
+/** Follow local $refs (#/$defs/…, #/definitions/…) and single-member allOf. */
+export function resolveRef(s: unknown, root: Schema, depth = 0): Schema {
+  if (!isObj(s) || depth > 32) return {};
+  if (typeof s.$ref === "string" && s.$ref.startsWith("#/")) {
+    const target = s.$ref
+      .slice(2)
+      .split("/")
+      .map((p) => p.replace(/~1/g, "/").replace(/~0/g, "~"))
+      .reduce<unknown>((node, key) => (isObj(node) ? node[key] : undefined), root);
+    const rest: Schema = { ...s };
+    delete rest.$ref;
+    return { ...resolveRef(target, root, depth + 1), ...rest };
+  }
+  if (Array.isArray(s.allOf) && s.allOf.length === 1 && Object.keys(s).length === 1) return resolveRef(s.allOf[0], root, depth + 1);
+  return s;
+}
+
+const branches = (s: Schema): unknown[] | undefined => (Array.isArray(s.oneOf) ? s.oneOf : Array.isArray(s.anyOf) ? s.anyOf : undefined);
+
+function num(v: unknown): number | undefined {
+  return typeof v === "number" && Number.isFinite(v) ? v : undefined;
+}
+
+function constValues(s: Schema, root: Schema): Primitive[] | undefined {
+  if ("const" in s) return [s.const as Primitive];
+  if (Array.isArray(s.enum)) return s.enum as Primitive[];
+  const b = branches(s);
+  if (b) {
+    const all = b.map((x) => constValues(resolveRef(x, root), root));
+    if (all.every((x): x is Primitive[] => x !== undefined)) return all.flat();
+  }
+  return undefined;
+}
+
+function typeOf(s: Schema): string | undefined {
+  if (typeof s.type === "string") return s.type;
+  if (Array.isArray(s.type)) {
+    const t = s.type.filter((x) => x !== "null");
+    return t.length === 1 && typeof t[0] === "string" ? t[0] : undefined;
+  }
+  return undefined;
+}
+
+function fieldOf(name: string, raw: unknown, required: boolean, root: Schema): FieldSpec {
+  let s = resolveRef(raw, root);
+  // A nullable wrapper (anyOf [X, {type: null}]) is X for the form.
+  const b = branches(s);
+  if (b && b.length === 2) {
+    const nonNull = b.map((x) => resolveRef(x, root)).filter((x) => x.type !== "null");
+    if (nonNull.length === 1) s = { ...nonNull[0], description: s.description ?? nonNull[0]!.description, default: s.default ?? nonNull[0]!.default };
+  }
+  const base = {
+    name,
+    required,
+    description: typeof s.description === "string" ? s.description : undefined,
+    default: s.default,
+  };
+  const values = constValues(s, root);
+  if (values && values.length > 0) return { ...base, kind: "enum", options: values };
+  const t = typeOf(s);
+  if (!branches(s)) {
+    if (t === "number" || t === "integer")
+      return { ...base, kind: t, minimum: num(s.minimum) ?? num(s.exclusiveMinimum), maximum: num(s.maximum) ?? num(s.exclusiveMaximum) };
+    if (t === "boolean") return { ...base, kind: "boolean" };
+    if (t === "string") return { ...base, kind: "string", pattern: typeof s.pattern === "string" ? s.pattern : undefined };
+  }
+  const shape = branches(s) ? "one of several shapes" : t === "array" ? "array" : t === "object" ? "object" : "JSON value";
+  return { ...base, kind: "json", shape };
+}
+
+function fieldsOf(obj: Schema, root: Schema, skip?: string): FieldSpec[] {
+  const props = isObj(obj.properties) ? obj.properties : {};
+  const required = new Set(Array.isArray(obj.required) ? (obj.required as string[]) : []);
+  return Object.entries(props)
+    .filter(([name]) => name !== skip)
+    .map(([name, p]) => fieldOf(name, p, required.has(name), root));
+}
+
+/** The form for a JSON Schema: fields of an object, a variant picker for a union of objects told apart by one constant property, else one JSON text area. */
+export function planForm(schema: Schema): FormPlan {
+  const top = resolveRef(schema, schema);
+  if (typeOf(top) === "object" || isObj(top.properties)) return { kind: "fields", fields: fieldsOf(top, schema) };
+  const b = branches(top);
+  if (b) {
+    const objs = b.map((x) => resolveRef(x, schema));
+    if (objs.every((o) => isObj(o.properties))) {
+      const first = objs[0];
+      const candidates = first && isObj(first.properties) ? Object.keys(first.properties) : [];
+      const discriminator = candidates.find((name) =>
+        objs.every((o) => {
+          const p = resolveRef((o.properties as Schema)[name], schema);
+          return "const" in p && typeof p.const === "string";
+        }),
+      );
+      if (discriminator) {
+        return {
+          kind: "variants",
+          discriminator,
+          variants: objs.map((o) => ({
+            value: String(resolveRef((o.properties as Schema)[discriminator], schema).const),
+            description: typeof o.description === "string" ? o.description : undefined,
+            fields: fieldsOf(o, schema, discriminator),
+          })),
+        };
+      }
+    }
+  }
+  return { kind: "raw" };
+}
+
+/** The name of the raw JSON field when the plan is "raw". */
+export const RAW_FIELD = "__body";
+
+/** The fields of a plan for one variant (the discriminator's value). */
+export function activeFields(plan: FormPlan, variant: string | undefined): FieldSpec[] {
+  if (plan.kind === "fields") return plan.fields;
+  if (plan.kind === "variants") return plan.variants.find((v) => v.value === variant)?.fields ?? plan.variants[0]?.fields ?? [];
+  return [{ name: RAW_FIELD, kind: "json", required: true, shape: "request body" }];
+}
+
+export function variantOf(plan: FormPlan, value: unknown): string | undefined {
+  if (plan.kind !== "variants") return undefined;
+  const v = isObj(value) ? value[plan.discriminator] : undefined;
+  return typeof v === "string" && plan.variants.some((x) => x.value === v) ? v : plan.variants[0]?.value;
+}
+
+const optionKey = (v: Primitive) => JSON.stringify(v);
+
+/** Form values for an example request (or for nothing: defaults and blanks). */
+export function valuesFor(plan: FormPlan, fields: FieldSpec[], example: unknown, variant?: string): FormValues {
+  const ex = isObj(example) ? example : {};
+  const out: FormValues = {};
+  if (plan.kind === "raw") {
+    out[RAW_FIELD] = example === undefined ? "{}" : JSON.stringify(example, null, 2);
+    return out;
+  }
+  if (plan.kind === "variants") out[plan.discriminator] = variant ?? variantOf(plan, example) ?? "";
+  for (const f of fields) {
+    const v = f.name in ex ? ex[f.name] : f.default;
+    switch (f.kind) {
+      case "boolean":
+        out[f.name] = typeof v === "boolean" ? v : false;
+        break;
+      case "enum":
+        out[f.name] = v === undefined ? "" : optionKey(v as Primitive);
+        break;
+      case "number":
+      case "integer":
+      case "string":
+        out[f.name] = v === undefined || v === null ? "" : String(v);
+        break;
+      case "json":
+        // Defaults of structured fields stay with the server; only the example's own values are filled in.
+        out[f.name] = f.name in ex ? JSON.stringify(ex[f.name], null, 2) : "";
+        break;
+    }
+  }
+  return out;
+}
+
+export const optionValue = optionKey;
+
+function fieldSchema(f: FieldSpec) {
+  const missing = (ctx: z.RefinementCtx) => {
+    ctx.addIssue({ code: "custom", message: "Required." });
+    return z.NEVER;
+  };
+  switch (f.kind) {
+    case "number":
+    case "integer":
+      return z.string().transform((s, ctx): number | undefined => {
+        if (s.trim() === "") return f.required ? missing(ctx) : undefined;
+        const n = Number(s);
+        if (!Number.isFinite(n)) {
+          ctx.addIssue({ code: "custom", message: "Enter a number." });
+          return z.NEVER;
+        }
+        return n;
+      });
+    case "enum": {
+      const byKey = new Map((f.options ?? []).map((o) => [optionKey(o), o]));
+      return z.string().transform((s, ctx): Primitive | undefined => {
+        if (s === "") return f.required ? missing(ctx) : undefined;
+        if (!byKey.has(s)) {
+          ctx.addIssue({ code: "custom", message: "Pick one of the listed values." });
+          return z.NEVER;
+        }
+        return byKey.get(s);
+      });
+    }
+    case "boolean":
+      // An optional flag without a default is sent only when ticked.
+      return z.boolean().transform((b) => (f.required || f.default !== undefined || b ? b : undefined));
+    case "string":
+      return z.string().transform((s, ctx): string | undefined => (s === "" ? (f.required ? missing(ctx) : undefined) : s));
+    case "json":
+      return z.string().transform((s, ctx): Json | undefined => {
+        if (s.trim() === "") return f.required ? missing(ctx) : undefined;
+        try {
+          return JSON.parse(s) as Json;
+        } catch (e) {
+          ctx.addIssue({ code: "custom", message: `Not valid JSON: ${e instanceof Error ? e.message : String(e)}` });
+          return z.NEVER;
+        }
+      });
+  }
+}
+
+/** RFC 6901 pointer for a path. */
+export function pointerOf(path: readonly PropertyKey[]): string {
+  return path.map((p) => "/" + String(p).replace(/~/g, "~0").replace(/\//g, "~1")).join("");
+}
+
+interface Issue {
+  path: PropertyKey[];
+  message: string;
+}
+
+type RawIssue = z.core.$ZodIssue;
+
+/**
+ * Readable issues from a zod error: for a union, the branch that came closest (no constant
+ * mismatch, then fewest issues) rather than "Invalid input" for every branch.
+ */
+export function explainIssues(issues: readonly RawIssue[], prefix: PropertyKey[] = []): Issue[] {
+  return issues.flatMap((issue): Issue[] => {
+    const path = [...prefix, ...issue.path];
+    if (issue.code === "invalid_union" && Array.isArray(issue.errors) && issue.errors.length > 0) {
+      const scored = issue.errors.map((branch) => ({
+        branch,
+        miss: branch.filter((i) => i.code === "invalid_value" && Array.isArray(i.values) && i.values.length === 1).length,
+      }));
+      scored.sort((a, b) => a.miss - b.miss || a.branch.length - b.branch.length);
+      const best = scored[0];
+      if (best && best.miss === 0) return explainIssues(best.branch, path);
+      return [{ path, message: "Matches none of the accepted shapes; see the examples for one that works." }];
+    }
+    if (issue.code === "unrecognized_keys") return issue.keys.map((k) => ({ path: [...path, k], message: `Unknown field \`${k}\`.` }));
+    return [{ path, message: issue.message }];
+  });
+}
+
+/** The zod schema react-hook-form validates with (through zodResolver). */
+export function buildFormSchema(plan: FormPlan, fields: FieldSpec[], body: z.ZodType | null): z.ZodType<Record<string, unknown>, FormValues> {
+  const shape: Record<string, z.ZodType> = {};
+  for (const f of fields) shape[f.name] = fieldSchema(f);
+  if (plan.kind === "variants") shape[plan.discriminator] = z.string().min(1, "Pick one.");
+  const topNames = new Set(Object.keys(shape));
+  const form = z.object(shape).transform((v): Record<string, unknown> => {
+    if (plan.kind === "raw") return (v[RAW_FIELD] ?? {}) as Record<string, unknown>;
+    return Object.fromEntries(Object.entries(v).filter(([, x]) => x !== undefined));
+  });
+  if (!body) return form as unknown as z.ZodType<Record<string, unknown>, FormValues>;
+  return form.superRefine((request, ctx) => {
+    const r = body.safeParse(request);
+    if (r.success) return;
+    // Issues inside a field go to that field, with the pointer into it; the rest to the form as a whole.
+    const grouped = new Map<string, string[]>();
+    for (const i of explainIssues(r.error.issues)) {
+      const top = plan.kind === "raw" ? RAW_FIELD : String(i.path[0] ?? "");
+      const target = topNames.has(top) ? top : "root";
+      const pointer = pointerOf(i.path);
+      const text = pointer && (i.path.length > 1 || target === "root") ? `${pointer}: ${i.message}` : i.message;
+      grouped.set(target, [...(grouped.get(target) ?? []), text]);
+    }
+    for (const [target, messages] of grouped) ctx.addIssue({ code: "custom", path: [target], message: messages.join(" · ") });
+  }) as unknown as z.ZodType<Record<string, unknown>, FormValues>;
+}
+
+/** z.fromJSONSchema of an endpoint's input, or null when zod cannot express it (the server still checks). */
+export function bodySchemaOf(schema: Record<string, unknown>): z.ZodType | null {
+  try {
+    return z.fromJSONSchema(schema as Parameters<typeof z.fromJSONSchema>[0]);
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,347 @@
+/**
+ * End-to-end harness: one production build, one `next start` server, one fake SMTP server and
+ * one headless Chromium per test file, on a throw-away SQLite database seeded with the demo org.
+ *
+ *   const e2e = await startE2E();      // in beforeAll (allow several minutes: it may build)
+ *   const s = await e2e.session();     // a fresh browser context + page per test
+ *   ...
+ *   await s.close();                   // fails if any request left 127.0.0.1 or a page threw
+ *   await e2e.stop();                  // in afterAll: kills the server's process group, cleans up
+ *
+ * Nothing here reaches beyond the loopback interface; every page request is recorded and a
+ * request to any host other than 127.0.0.1 fails the session.
+ */
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, statSync } from "node:fs";
+import { createServer } from "node:net";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { migrate, openDb } from "@/db";
+import { seedDemo } from "@/db/seed/demo";
+import { waitForMessage } from "@/fakes/mailbox";
+import { startFakeSmtp, type FakeSmtp } from "@/fakes/smtp";
+
+export const ROOT = fileURLToPath(new URL("../../", import.meta.url)).replace(/\/$/, "");
+export const SCREENSHOT_DIR = join(ROOT, "tests", "e2e", "screenshots");
+export const CHROMIUM = process.env.PARITAS_E2E_CHROMIUM ?? "/usr/bin/chromium";
+
+export const DESKTOP = { width: 1280, height: 800 } as const;
+export const PHONE = { width: 390, height: 844 } as const;
+
+const CHROMIUM_ARGS = [
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--no-first-run",
+  "--disable-sync",
+  "--disable-quic",
+];
+
+/** What the production build is made from; a file newer than .next/BUILD_ID means the build is stale. */
+const BUILD_INPUTS = ["app", "components", "lib", "db", "migrations", "openapi", "fakes", "public", "instrumentation.ts", "next.config.ts", "postcss.config.mjs", "tsconfig.json", "package.json", "package-lock.json"];
+
+function newestMtime(path: string): number {
+  if (!existsSync(path)) return 0;
+  const st = statSync(path);
+  if (!st.isDirectory()) return st.mtimeMs;
+  let newest = st.mtimeMs;
+  for (const entry of readdirSync(path)) {
+    if (entry === "node_modules" || entry.startsWith(".")) continue;
+    newest = Math.max(newest, newestMtime(join(path, entry)));
+  }
+  return newest;
+}
+
+/** Why the build must be (re)made, or null when .next holds a production build newer than every source. */
+export function buildStaleReason(): string | null {
+  const id = join(ROOT, ".next", "BUILD_ID");
+  if (!existsSync(id)) return ".next/BUILD_ID is missing";
+  const built = statSync(id).mtimeMs;
+  for (const input of BUILD_INPUTS) {
+    const t = newestMtime(join(ROOT, input));
+    if (t > built) return `${input} changed after the last build`;
+  }
+  return null;
+}
+
+/** `npm run build` (prebuild copies the vendored assets, then `next build`) unless the build is fresh. PARITAS_E2E_BUILD=always forces it. */
+export function ensureBuild(log: (s: string) => void = (s) => console.log(s)): { built: boolean; ms: number } {
+  const reason = process.env.PARITAS_E2E_BUILD === "always" ? "PARITAS_E2E_BUILD=always" : buildStaleReason();
+  if (!reason) return { built: false, ms: 0 };
+  log(`e2e: building the app (${reason})…`);
+  const t0 = Date.now();
+  const r = spawnSync("npm", ["run", "build"], {
+    cwd: ROOT,
+    env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" },
+    encoding: "utf8",
+    maxBuffer: 64 * 1024 * 1024,
+  });
+  if (r.status !== 0) throw new Error(`next build failed (exit ${r.status}):\n${(r.stdout ?? "").slice(-4000)}\n${(r.stderr ?? "").slice(-4000)}`);
+  const ms = Date.now() - t0;
+  log(`e2e: build done in ${(ms / 1000).toFixed(0)} s`);
+  return { built: true, ms };
+}
+
+/** A free TCP port on the loopback interface. */
+export function freePort(): Promise<number> {
+  return new Promise((ok, fail) => {
+    const srv = createServer();
+    srv.unref();
+    srv.once("error", fail);
+    srv.listen(0, "127.0.0.1", () => {
+      const addr = srv.address();
+      const port = typeof addr === "object" && addr ? addr.port : 0;
+      srv.close(() => ok(port));
+    });
+  });
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** The server's own output, kept for the error message when it does not come up or a test fails. */
+class OutputTail {
+  private chunks: string[] = [];
+  push(b: Buffer) {
+    this.chunks.push(b.toString("utf8"));
+    if (this.chunks.length > 400) this.chunks.splice(0, this.chunks.length - 400);
+  }
+  text(max = 6000) {
+    return this.chunks.join("").slice(-max);
+  }
+}
+
+export interface Session {
+  context: BrowserContext;
+  page: Page;
+  /** Every request a page of this context made to a host other than 127.0.0.1. */
+  offHost: string[];
+  /** Uncaught exceptions in the pages of this context. */
+  pageErrors: string[];
+  /** console.error lines (reported, not failed on: React logs some of them on purpose). */
+  consoleErrors: string[];
+  /** The session cookie header of this context, for calling console routes from the test. */
+  cookieHeader(): Promise<string>;
+  /** Close the context; throws if a request left the loopback host or a page threw. */
+  close(): Promise<void>;
+}
+
+export interface E2E {
+  baseUrl: string;
+  port: number;
+  dbFile: string;
+  mailboxDir: string;
+  smtp: FakeSmtp;
+  browser: Browser;
+  build: { built: boolean; ms: number };
+  serverOutput(): string;
+  session(opts?: { viewport?: { width: number; height: number } }): Promise<Session>;
+  stop(): Promise<void>;
+}
+
+async function waitForHealth(url: string, child: ChildProcess, out: OutputTail, timeoutMs: number): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    if (child.exitCode !== null || child.signalCode !== null) throw new Error(`next start exited (${child.exitCode ?? child.signalCode}) before it answered:\n${out.text()}`);
+    try {
+      const res = await fetch(url, { signal: AbortSignal.timeout(2000) });
+      if (res.ok) return;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error(`no answer from ${url} within ${timeoutMs} ms:\n${out.text()}`);
+    await sleep(150);
+  }
+}
+
+function killGroup(child: ChildProcess, signal: NodeJS.Signals) {
+  if (child.pid === undefined) return;
+  try {
+    process.kill(-child.pid, signal); // the whole process group: npm-less, but next start forks its server
+  } catch {
+    // already gone
+  }
+}
+
+async function stopServer(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise<void>((ok) => child.once("exit", () => ok()));
+  killGroup(child, "SIGTERM");
+  const timedOut = await Promise.race([exited.then(() => false), sleep(5000).then(() => true)]);
+  if (timedOut) {
+    killGroup(child, "SIGKILL");
+    await Promise.race([exited, sleep(2000)]);
+  }
+}
+
+/** Build if needed, seed a fresh database, start SMTP + server + Chromium. */
+export async function startE2E(): Promise<E2E> {
+  const build = ensureBuild();
+  const tmp = mkdtempSync(join(tmpdir(), "paritas-e2e-"));
+  const dbFile = join(tmp, "paritas.db");
+  const mailboxDir = join(tmp, "mailbox");
+  mkdirSync(mailboxDir);
+
+  // Migrate and seed with our own connection, then close it: the server opens the same file.
+  const db = openDb(dbFile);
+  try {
+    await migrate(db);
+    await seedDemo(db);
+  } finally {
+    await db.destroy();
+  }
+
+  const smtp = await startFakeSmtp({ port: 0, dir: mailboxDir });
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const out = new OutputTail();
+  const env: NodeJS.ProcessEnv = {
+    PATH: process.env.PATH,
+    HOME: process.env.HOME,
+    TMPDIR: process.env.TMPDIR,
+    NODE_ENV: "production",
+    PARITAS_DB_FILE: dbFile,
+    PARITAS_SMTP_URL: `smtp://127.0.0.1:${smtp.port}`,
+    PARITAS_MAILBOX_DIR: mailboxDir,
+    PARITAS_DEV_MAILBOX: "1",
+    PARITAS_AUTH_SECRET: randomBytes(32).toString("base64url"),
+    NEXTAUTH_URL: baseUrl,
+    NEXT_TELEMETRY_DISABLED: "1",
+  };
+  const child = spawn(join(ROOT, "node_modules", ".bin", "next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
+    cwd: ROOT,
+    env,
+    detached: true, // its own process group, so stop() can take down every process it forks
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  child.stdout!.on("data", (b: Buffer) => out.push(b));
+  child.stderr!.on("data", (b: Buffer) => out.push(b));
+
+  let browser: Browser | undefined;
+  const cleanup = async () => {
+    await browser?.close().catch(() => undefined);
+    await stopServer(child);
+    await smtp.close().catch(() => undefined);
+    rmSync(tmp, { recursive: true, force: true });
+  };
+
+  try {
+    await waitForHealth(`${baseUrl}/api/health`, child, out, 60_000);
+    // Default temporary profile: Playwright makes a fresh user-data dir for the launch and deletes it on close;
+    // every session() below is a new, empty browser context on top of it.
+    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: CHROMIUM_ARGS });
+  } catch (e) {
+    await cleanup();
+    throw e;
+  }
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  const b = browser;
+
+  async function session(opts: { viewport?: { width: number; height: number } } = {}): Promise<Session> {
+    const context = await b.newContext({ viewport: opts.viewport ?? DESKTOP, locale: "en-GB", timezoneId: "UTC", colorScheme: "light" });
+    context.setDefaultTimeout(15_000);
+    const offHost: string[] = [];
+    const pageErrors: string[] = [];
+    const consoleErrors: string[] = [];
+    const watch = (page: Page) => {
+      page.on("request", (req) => {
+        const url = req.url();
+        if (url.startsWith("data:") || url.startsWith("blob:") || url === "about:blank") return;
+        try {
+          if (new URL(url).hostname !== "127.0.0.1") offHost.push(url);
+        } catch {
+          offHost.push(url);
+        }
+      });
+      page.on("pageerror", (err) => pageErrors.push(`${page.url()}: ${err.message}`));
+      page.on("console", (msg) => {
+        if (msg.type() === "error") consoleErrors.push(`${page.url()}: ${msg.text()}`);
+      });
+    };
+    context.on("page", watch);
+    const page = await context.newPage();
+    return {
+      context,
+      page,
+      offHost,
+      pageErrors,
+      consoleErrors,
+      async cookieHeader() {
+        return (await context.cookies(baseUrl)).map((c) => `${c.name}=${c.value}`).join("; ");
+      },
+      async close() {
+        await context.close();
+        if (consoleErrors.length) console.warn(`e2e: console errors:\n  ${consoleErrors.join("\n  ")}`);
+        if (offHost.length) throw new Error(`requests left 127.0.0.1:\n  ${offHost.join("\n  ")}`);
+        if (pageErrors.length) throw new Error(`uncaught errors in the page:\n  ${pageErrors.join("\n  ")}`);
+      },
+    };
+  }
+
+  return {
+    baseUrl,
+    port,
+    dbFile,
+    mailboxDir,
+    smtp,
+    browser: b,
+    build,
+    serverOutput: () => out.text(),
+    session,
+    stop: cleanup,
+  };
+}
+
+/** Save a screenshot of the viewport under tests/e2e/screenshots/<name>.png, once fonts have loaded. */
+export async function screenshot(page: Page, name: string): Promise<string> {
+  await page.evaluate(() => document.fonts.ready.then(() => undefined));
+  const path = join(SCREENSHOT_DIR, `${name}.png`);
+  await page.screenshot({ path, animations: "disabled", caret: "hide" });
+  return path;
+}
+
+/** The first http(s) URL in a mail's text that starts with `prefix`. */
+export function linkIn(text: string, prefix: string): string {
+  const url = text.match(/https?:\/\/[^\s<>"]+/g)?.find((u) => u.startsWith(prefix));
+  if (!url) throw new Error(`no link starting with ${prefix} in:\n${text}`);
+  return url;
+}
+
+/**
+ * Ask for a sign-in link on /signin, read it from the fake mailbox and follow it; resolves once
+ * the browser has left next-auth's callback (on the console, or on the page the sign-in was for).
+ * `fromCurrentPage` keeps the page where it is (already on /signin, with its callbackUrl).
+ */
+export async function signInWithLink(e2e: E2E, page: Page, email: string, opts: { screenshotAs?: string; fromCurrentPage?: boolean } = {}): Promise<string> {
+  const since = new Date();
+  if (!opts.fromCurrentPage) await page.goto(`${e2e.baseUrl}/signin`);
+  await page.getByLabel("E-mail for the link").fill(email);
+  if (opts.screenshotAs) await screenshot(page, opts.screenshotAs);
+  await page.getByRole("button", { name: "E-mail me a link" }).click();
+  await page.waitForURL(/\/signin\/check-mail/);
+  const message = await waitForMessage(e2e.mailboxDir, email, { since, timeoutMs: 10_000 });
+  const link = linkIn(message.text, `${e2e.baseUrl}/api/auth/callback/email`);
+  await page.goto(link);
+  await page.waitForURL((u) => u.pathname.startsWith("/console"));
+  return link;
+}
+
+/** Sign in with e-mail and password on /signin; resolves once the console has opened. */
+export async function signInWithPassword(e2e: E2E, page: Page, email: string, password: string): Promise<void> {
+  await page.goto(`${e2e.baseUrl}/signin`);
+  // Two fields are labelled with "E-mail"; the password form's is exactly that.
+  await page.getByLabel("E-mail", { exact: true }).fill(email);
+  await page.locator('input[name="password"]').fill(password);
+  await page.getByRole("button", { name: "Sign in", exact: true }).click();
+  await page.waitForURL((u) => u.pathname.startsWith("/console"));
+}
+
+/** Wait until the console has nothing left loading: no skeletons, no "…" placeholders. */
+export async function settle(page: Page): Promise<void> {
+  // Not "networkidle": the router's prefetches of neighbouring sections may keep a request open.
+  await page.waitForLoadState("load");
+  await page.waitForFunction(() => document.querySelectorAll('[aria-label="loading"], [role="status"][aria-live="polite"] .animate-pulse').length === 0);
+}
