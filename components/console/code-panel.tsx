@@ -10,7 +10,7 @@ export function CodePanel({ label, text, children, maxHeight }: { label: string;
           <span aria-hidden="true" className="inline-block h-2 w-2 rounded-full bg-code-key" />
           {label}
         </span>
-        <CopyButton text={text} label={`Copy ${label}`} className="border-white/25 bg-transparent text-code-ink hover:bg-white/10" />
+        <CopyButton text={text} label={`Copy ${label}`} tone="dark" />
       </figcaption>
       <pre
         tabIndex={0}

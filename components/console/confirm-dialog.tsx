@@ -55,7 +55,7 @@ export function ConfirmDialog({
         </div>
       ) : null}
       <DialogActions>
-        <button type="button" className={buttonSecondary} onClick={() => finish(false)}>
+        <button type="button" className={buttonSecondary} onClick={() => finish(false)} data-autofocus>
           {problem ? "Close" : cancelLabel}
         </button>
         {problem && problem.status === 409 ? null : (

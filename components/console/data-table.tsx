@@ -7,6 +7,7 @@ import {
   rowSortingFeature,
   sortFn_alphanumeric,
   sortFn_basic,
+  sortFn_text,
   tableFeatures,
   useTable,
   type ColumnDef,
@@ -22,7 +23,7 @@ export const tableFeats = tableFeatures({
   sortedRowModel: createSortedRowModel(),
   rowPaginationFeature,
   paginatedRowModel: createPaginatedRowModel(),
-  sortFns: { alphanumeric: sortFn_alphanumeric, basic: sortFn_basic },
+  sortFns: { alphanumeric: sortFn_alphanumeric, basic: sortFn_basic, text: sortFn_text },
 });
 
 export type TableFeats = typeof tableFeats;

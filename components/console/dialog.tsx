@@ -7,6 +7,7 @@ import { IconClose } from "./icons";
  * A modal on the native <dialog> element: the browser traps focus, makes the rest of the page
  * inert, closes on Escape and returns focus to the control that opened it.
  * `dismissible={false}` keeps Escape from closing it (while a key is on screen, say).
+ * Mark the control that should take focus first with `data-autofocus`.
  */
 export function Dialog({
   open,
@@ -32,7 +33,11 @@ export function Dialog({
   useEffect(() => {
     const d = ref.current;
     if (!d) return;
-    if (open && !d.open) d.showModal();
+    if (open && !d.open) {
+      d.showModal();
+      // The browser focuses the first control (the close button); a dialog can name a better start.
+      d.querySelector<HTMLElement>("[data-autofocus]")?.focus();
+    }
     if (!open && d.open) d.close();
   }, [open]);
 

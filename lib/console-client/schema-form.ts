@@ -281,8 +281,9 @@ export function explainIssues(issues: readonly RawIssue[], prefix: PropertyKey[]
 /** The zod schema react-hook-form validates with (through zodResolver). */
 export function buildFormSchema(plan: FormPlan, fields: FieldSpec[], body: z.ZodType | null): z.ZodType<Record<string, unknown>, FormValues> {
   const shape: Record<string, z.ZodType> = {};
-  for (const f of fields) shape[f.name] = fieldSchema(f);
+  // The discriminator first, so the request reads in the order the API documents it.
   if (plan.kind === "variants") shape[plan.discriminator] = z.string().min(1, "Pick one.");
+  for (const f of fields) shape[f.name] = fieldSchema(f);
   const topNames = new Set(Object.keys(shape));
   const form = z.object(shape).transform((v): Record<string, unknown> => {
     if (plan.kind === "raw") return (v[RAW_FIELD] ?? {}) as Record<string, unknown>;

@@ -18,7 +18,7 @@ import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { chromium, type Browser, type BrowserContext, type Locator, type Page } from "playwright-core";
 import { migrate, openDb } from "@/db";
 import { seedDemo } from "@/db/seed/demo";
 import { waitForMessage } from "@/fakes/mailbox";
@@ -260,6 +260,10 @@ export async function startE2E(): Promise<E2E> {
       page.on("console", (msg) => {
         if (msg.type() === "error") consoleErrors.push(`${page.url()}: ${msg.text()}`);
       });
+      page.on("response", (res) => {
+        // Failed loads, for the report next to the console errors (several are expected refusals: 401, 403).
+        if (res.status() >= 400) consoleErrors.push(`${page.url()}: ${res.request().method()} ${res.url()} → ${res.status()}`);
+      });
     };
     context.on("page", watch);
     const page = await context.newPage();
@@ -311,17 +315,49 @@ export function linkIn(text: string, prefix: string): string {
 }
 
 /**
+ * Resolves once React has hydrated the element: before that a click on a submit button does a
+ * plain HTML form submission instead of running the page's handler.
+ */
+export async function hydrated(locator: Locator): Promise<void> {
+  await locator.waitFor();
+  await locator.evaluate(
+    (el) =>
+      new Promise<void>((ok) => {
+        const done = () => Object.keys(el).some((k) => k.startsWith("__reactProps$"));
+        if (done()) return ok();
+        const t = setInterval(() => {
+          if (done()) {
+            clearInterval(t);
+            ok();
+          }
+        }, 25);
+      }),
+  );
+}
+
+/**
  * Ask for a sign-in link on /signin, read it from the fake mailbox and follow it; resolves once
  * the browser has left next-auth's callback (on the console, or on the page the sign-in was for).
  * `fromCurrentPage` keeps the page where it is (already on /signin, with its callbackUrl).
  */
-export async function signInWithLink(e2e: E2E, page: Page, email: string, opts: { screenshotAs?: string; fromCurrentPage?: boolean } = {}): Promise<string> {
+export async function signInWithLink(
+  e2e: E2E,
+  page: Page,
+  email: string,
+  opts: { screenshotAs?: string; checkMailScreenshotAs?: string; fromCurrentPage?: boolean } = {},
+): Promise<string> {
   const since = new Date();
   if (!opts.fromCurrentPage) await page.goto(`${e2e.baseUrl}/signin`);
+  const send = page.getByRole("button", { name: "E-mail me a link" });
+  await hydrated(send);
   await page.getByLabel("E-mail for the link").fill(email);
   if (opts.screenshotAs) await screenshot(page, opts.screenshotAs);
-  await page.getByRole("button", { name: "E-mail me a link" }).click();
+  await send.click();
   await page.waitForURL(/\/signin\/check-mail/);
+  if (opts.checkMailScreenshotAs) {
+    await page.getByRole("heading", { name: "Check your inbox" }).waitFor();
+    await screenshot(page, opts.checkMailScreenshotAs);
+  }
   const message = await waitForMessage(e2e.mailboxDir, email, { since, timeoutMs: 10_000 });
   const link = linkIn(message.text, `${e2e.baseUrl}/api/auth/callback/email`);
   await page.goto(link);
@@ -332,10 +368,12 @@ export async function signInWithLink(e2e: E2E, page: Page, email: string, opts: 
 /** Sign in with e-mail and password on /signin; resolves once the console has opened. */
 export async function signInWithPassword(e2e: E2E, page: Page, email: string, password: string): Promise<void> {
   await page.goto(`${e2e.baseUrl}/signin`);
+  const submit = page.getByRole("button", { name: "Sign in", exact: true });
+  await hydrated(submit);
   // Two fields are labelled with "E-mail"; the password form's is exactly that.
   await page.getByLabel("E-mail", { exact: true }).fill(email);
   await page.locator('input[name="password"]').fill(password);
-  await page.getByRole("button", { name: "Sign in", exact: true }).click();
+  await submit.click();
   await page.waitForURL((u) => u.pathname.startsWith("/console"));
 }
 

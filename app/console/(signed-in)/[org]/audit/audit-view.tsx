@@ -24,12 +24,12 @@ const ACTIONS: Record<string, string> = {
   "org.ownership_transferred": "handed over ownership",
 };
 
-const PAGE_SIZES = [25, 50, 100] as const;
+const PAGE_SIZES = [10, 25, 50, 100] as const;
 
 function Actor({ a }: { a: AuditEntry["actor"] }) {
   if (a.kind === "cli") return <span>operator CLI</span>;
   if (a.kind === "system") return <span className="text-ink-2">system</span>;
-  return <span className="break-all">{a.email ?? (a.userId !== undefined ? `user #${a.userId}` : "a user")}</span>;
+  return <span className="[overflow-wrap:anywhere]">{a.email ?? (a.userId !== undefined ? `user #${a.userId}` : "a user")}</span>;
 }
 
 const asRecord = (v: unknown): Record<string, unknown> => (typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
@@ -43,7 +43,7 @@ function Target({ e }: { e: AuditEntry }) {
       </span>
     );
   if (e.targetType === "user" || e.targetType === "invitation")
-    return <span className="break-all">{typeof d.email === "string" ? d.email : `${e.targetType} #${e.targetId}`}</span>;
+    return <span className="[overflow-wrap:anywhere]">{typeof d.email === "string" ? d.email : `${e.targetType} #${e.targetId}`}</span>;
   if (!e.targetType) return <span className="text-ink-2">—</span>;
   return (
     <span>
@@ -61,7 +61,7 @@ function Details({ e }: { e: AuditEntry }) {
       {pairs.map(([k, v]) => (
         <div key={k} className="flex flex-wrap gap-x-1.5">
           <dt className="text-ink-2">{k}</dt>
-          <dd className="font-mono break-all">{typeof v === "string" && /^\d{4}-\d\d-\d\dT/.test(v) ? formatDateTime(v) : Array.isArray(v) ? v.join(", ") : String(typeof v === "object" ? JSON.stringify(v) : v)}</dd>
+          <dd className="font-mono [overflow-wrap:anywhere]">{typeof v === "string" && /^\d{4}-\d\d-\d\dT/.test(v) ? formatDateTime(v) : Array.isArray(v) ? (v.length ? v.join(", ") : "none") : String(typeof v === "object" ? JSON.stringify(v) : v)}</dd>
         </div>
       ))}
     </dl>

@@ -92,6 +92,7 @@ export function CreateKeyDialog({ org, open, onClose }: { org: string; open: boo
               className={`${inputBase} mt-1`}
               autoComplete="off"
               placeholder="ci-nightly"
+              data-autofocus
               aria-invalid={errors.name ? true : undefined}
               aria-describedby={errors.name ? `${ids.name}-err` : undefined}
               {...register("name")}

@@ -1,6 +1,6 @@
 "use client";
 
-import { useId, useState, type ReactNode } from "react";
+import { useEffect, useId, useRef, useState, type ReactNode } from "react";
 import { CopyButton } from "@/components/console/copy-button";
 import { DialogActions } from "@/components/console/dialog";
 import { IconWarn } from "@/components/console/icons";
@@ -11,6 +11,9 @@ export function RevealKey({ secret, children, onDone }: { secret: string; childr
   const [stored, setStored] = useState(false);
   const fieldId = useId();
   const checkId = useId();
+  const field = useRef<HTMLInputElement>(null);
+  // The dialog stays open while its content turns into this: put focus on the key, not on the page behind.
+  useEffect(() => field.current?.focus(), []);
   return (
     <div className="flex flex-col gap-4">
       <div role="alert" className="flex gap-3 rounded-lg border border-caution-rule border-l-[6px] bg-caution-bg px-4 py-3 text-caution-ink">
@@ -31,6 +34,7 @@ export function RevealKey({ secret, children, onDone }: { secret: string; childr
             value={secret}
             spellCheck={false}
             autoComplete="off"
+            ref={field}
             onFocus={(e) => e.currentTarget.select()}
             className="block w-full min-w-0 rounded-md border border-ink-2/60 bg-code-bg px-3 py-2 font-mono text-sm text-code-ink"
           />

@@ -37,7 +37,7 @@ export function RevokeKeyDialog({ org, target, onClose }: { org: string; target:
         </div>
       ) : null}
       <DialogActions>
-        <button type="button" className={buttonSecondary} onClick={close} autoFocus>
+        <button type="button" className={buttonSecondary} onClick={close} data-autofocus>
           Keep the key
         </button>
         <button type="button" className={buttonDanger} onClick={() => revoke.mutate()} disabled={revoke.isPending}>

@@ -94,7 +94,15 @@ export function RotateKeyDialog({ org, target, onClose }: { org: string; target:
             <div className="mt-2 grid gap-2 sm:grid-cols-2">
               {CHOICES.map((c) => (
                 <label key={c.id} className="flex items-start gap-2 rounded-md border border-ink-2/40 p-3 text-sm has-[:checked]:border-accent has-[:checked]:bg-accent-soft/50">
-                  <input type="radio" name={groupName} value={c.id} checked={choice === c.id} onChange={() => setChoice(c.id)} className="mt-1 h-4 w-4 accent-accent" />
+                  <input
+                    type="radio"
+                    name={groupName}
+                    value={c.id}
+                    checked={choice === c.id}
+                    onChange={() => setChoice(c.id)}
+                    className="mt-1 h-4 w-4 accent-accent"
+                    data-autofocus={choice === c.id ? true : undefined}
+                  />
                   <span>
                     <span className="font-medium">{c.label}</span>
                     <span className="block text-ink-2">{c.help}</span>

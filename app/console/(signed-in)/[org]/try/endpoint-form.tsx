@@ -44,12 +44,14 @@ function Field({
   register,
   error,
   server,
+  initialLines,
 }: {
   f: FieldSpec;
   id: string;
   register: UseFormRegister<FormValues>;
   error?: string;
   server?: string[];
+  initialLines: number;
 }) {
   const hintId = `${id}-hint`;
   const errId = `${id}-err`;
@@ -126,7 +128,7 @@ function Field({
     case "json":
       control = (
         <textarea
-          rows={f.name === RAW_FIELD ? 12 : 4}
+          rows={Math.min(f.name === RAW_FIELD ? 20 : 14, Math.max(3, initialLines + 1))}
           spellCheck={false}
           autoComplete="off"
           className={`${inputBase} mt-1 resize-y font-mono text-[0.8125rem] leading-relaxed`}
@@ -207,7 +209,15 @@ function FieldsForm({
       ) : null}
       {fields.length === 0 ? <p className="text-sm text-ink-2">This endpoint takes no input.</p> : null}
       {fields.map((f) => (
-        <Field key={f.name} f={f} id={`${idBase}-${f.name}`} register={register} error={errors[f.name]?.message} server={server.get(f.name)} />
+        <Field
+          key={f.name}
+          f={f}
+          id={`${idBase}-${f.name}`}
+          register={register}
+          error={errors[f.name]?.message}
+          server={server.get(f.name)}
+          initialLines={String(defaults[f.name] ?? "").split("\n").length}
+        />
       ))}
       {rootMessage || serverRoot ? (
         <p role="alert" className={errorText}>

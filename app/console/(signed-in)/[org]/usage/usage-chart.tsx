@@ -24,7 +24,6 @@ function DayTip({ active, payload }: TooltipContentProps) {
 
 /** Compute units a day as bars; days without use show as gaps on the baseline. */
 export function UsageChart({ daily }: { daily: Day[] }) {
-  const tickEvery = Math.max(1, Math.ceil(daily.length / 10));
   return (
     <div className="h-64 w-full sm:h-72">
       <ResponsiveContainer width="100%" height="100%">
@@ -33,7 +32,8 @@ export function UsageChart({ daily }: { daily: Day[] }) {
           <XAxis
             dataKey="day"
             tickFormatter={(d: string) => formatDay(d, true)}
-            interval={tickEvery - 1}
+            interval="preserveStartEnd"
+            minTickGap={18}
             tick={{ fill: "var(--pa-ink-2)", fontSize: 12 }}
             axisLine={{ stroke: "var(--pa-rule)" }}
             tickLine={false}
