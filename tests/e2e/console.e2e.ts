@@ -1,0 +1,298 @@
+/**
+ * The console in a real browser: headless Chromium against `next start` on a seeded demo
+ * database, with mail going to the fake SMTP server. One server for the whole file; each test
+ * is one flow in its own browser context. Screenshots land in tests/e2e/screenshots/.
+ */
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
+import { waitForMessage } from "@/fakes/mailbox";
+import { linkIn, PHONE, screenshot, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+
+const [OWNER, DEVELOPER, BILLING] = DEMO_USERS as unknown as [(typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number]];
+const ORG = DEMO_ORG.slug;
+
+let e2e: E2E;
+
+beforeAll(async () => {
+  e2e = await startE2E();
+}, 15 * 60_000);
+
+afterAll(async () => {
+  await e2e?.stop();
+}, 30_000);
+
+/** Run `fn` in a fresh browser session and close it after, failing on off-host requests or page errors. */
+async function inSession(fn: (s: Session) => Promise<void>, opts?: Parameters<E2E["session"]>[0]): Promise<void> {
+  const s = await e2e.session(opts);
+  try {
+    await fn(s);
+  } catch (err) {
+    // Where the page was and what it showed: a git-ignored *.tmp.png next to the screenshots.
+    const name = `failure-${expect.getState().currentTestName?.replace(/\W+/g, "-").slice(0, 80) ?? "test"}.tmp`;
+    const shot = await screenshot(s.page, name).catch(() => "(no screenshot)");
+    const alerts = await s.page.getByRole("alert").allInnerTexts().catch(() => []);
+    await s.context.close().catch(() => undefined);
+    throw new Error(
+      `${(err as Error).message}\n--- page: ${s.page.url()} (${shot}); alerts: ${JSON.stringify(alerts)}\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`,
+      { cause: err },
+    );
+  }
+  await s.close();
+}
+
+const callCapacity = (key: string) =>
+  fetch(`${e2e.baseUrl}/api/v1/capacity`, {
+    method: "POST",
+    headers: { authorization: `Bearer ${key}`, "content-type": "application/json" },
+    body: JSON.stringify({ channel: "bsc", p: 0.11 }),
+  });
+
+const sectionLink = (s: Session, name: string) => s.page.getByRole("navigation", { name: "Console sections" }).getByRole("link", { name: new RegExp(`^${name}\\b`) });
+
+/** The number in column `column` (1-based) of the row of `table` that mentions `text`. */
+async function cellNumber(s: Session, table: string, text: string, column: number): Promise<number> {
+  const row = s.page.getByRole("table", { name: table }).getByRole("row").filter({ hasText: text }).first();
+  await row.waitFor();
+  const cell = row.locator("th, td").nth(column - 1);
+  return Number((await cell.innerText()).replace(/[^\d]/g, ""));
+}
+
+describe("console in a browser", { timeout: 90_000 }, () => {
+  test("signs in with an e-mail link read from the mailbox and lands in the console", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      const link = await signInWithLink(e2e, page, DEVELOPER.email, { screenshotAs: "signin", checkMailScreenshotAs: "check-mail" });
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}`);
+      await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(DEMO_ORG.name);
+      await sectionLink(s, "Keys").waitFor();
+      await expect.poll(() => page.getByText(DEVELOPER.email).first().isVisible()).toBe(true);
+      await settle(page);
+      await screenshot(page, "summary");
+
+      expect(await s.cookieHeader()).toContain("next-auth.session-token=");
+
+      // The link works once: a second visit lands on /signin with next-auth's Verification error.
+      await page.goto(link);
+      await page.waitForURL((u) => u.pathname === "/signin" && u.searchParams.get("error") === "Verification");
+      await page.getByRole("alert").filter({ hasText: "has expired or has been used already" }).waitFor();
+
+      // The development mailbox shows the message the link came in.
+      await page.goto(`${e2e.baseUrl}/console/dev/mailbox`);
+      await page.getByText("Your Paritas sign-in link").first().waitFor();
+      await settle(page);
+      await screenshot(page, "dev-mailbox");
+    });
+  });
+
+  test("creates a key, calls the API with it, sees the usage, rotates it with an overlap and revokes the new one", async () => {
+    await inSession(async (s) => {
+      const { page, context } = s;
+      await context.grantPermissions(["clipboard-read", "clipboard-write"], { origin: e2e.baseUrl });
+      await signInWithLink(e2e, page, DEVELOPER.email);
+      await sectionLink(s, "Keys").click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/keys`);
+      await page.getByRole("heading", { name: "API keys", level: 1 }).waitFor();
+      await settle(page);
+      await screenshot(page, "keys");
+
+      // Create: the dialog shows the key once; copy it with the page's own button.
+      await page.getByRole("button", { name: "Create a key" }).first().click();
+      const create = page.getByRole("dialog", { name: "Create a key" });
+      await create.getByLabel("Name").fill("e2e capacity probe");
+      await create.getByRole("button", { name: "Create key" }).click();
+      const shown = page.getByRole("dialog", { name: "Your new key" });
+      const field = shown.getByLabel("The new key");
+      await field.waitFor();
+      const key = await field.inputValue();
+      expect(key).toMatch(/^prt_test_[0-9A-Za-z]{38}$/);
+      await shown.getByRole("button", { name: "Copy key" }).click();
+      await shown.getByRole("button", { name: "Copied" }).waitFor();
+      expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(key);
+      await screenshot(page, "key-created");
+      await shown.getByLabel("I have stored the key somewhere safe.").check();
+      await shown.getByRole("button", { name: "Done — hide the key" }).click();
+      await shown.waitFor({ state: "hidden" });
+      expect(await page.content()).not.toContain(key);
+
+      const res = await callCapacity(key);
+      expect(res.status).toBe(200);
+      const body = (await res.json()) as { capacity: { value: number } };
+      expect(body.capacity.value).toBeCloseTo(0.5, 3);
+
+      // The call shows on the meter: by endpoint, and against the new key.
+      await sectionLink(s, "Meter").click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/usage`);
+      await page.getByRole("heading", { name: "Usage", level: 1 }).waitFor();
+      expect(await cellNumber(s, "Usage by endpoint", "capacity", 2)).toBeGreaterThanOrEqual(1);
+      expect(await cellNumber(s, "Usage by key", "e2e capacity probe", 2)).toBe(1);
+      await settle(page);
+      await screenshot(page, "usage");
+      await page.getByRole("heading", { name: "By endpoint" }).scrollIntoViewIfNeeded();
+      await screenshot(page, "usage-tables");
+
+      // Rotate with a one-hour overlap: old and new keys both work inside the window.
+      await sectionLink(s, "Keys").click();
+      const prefix = key.slice(0, 13);
+      await page.getByRole("button", { name: `Rotate e2e capacity probe (${prefix})` }).first().click();
+      const rotate = page.getByRole("dialog", { name: "Rotate e2e capacity probe" });
+      await rotate.getByLabel(/^1 hour/).check();
+      await screenshot(page, "key-rotate");
+      await rotate.getByRole("button", { name: "Rotate key" }).click();
+      const replacement = page.getByRole("dialog", { name: "The replacement key" });
+      const newKey = await replacement.getByLabel("The new key").inputValue();
+      expect(newKey).toMatch(/^prt_test_/);
+      expect(newKey).not.toBe(key);
+      await replacement.getByText(/keeps working until/).waitFor();
+      await replacement.getByLabel("I have stored the key somewhere safe.").check();
+      await replacement.getByRole("button", { name: "Done — hide the key" }).click();
+      await replacement.waitFor({ state: "hidden" });
+
+      expect((await callCapacity(key)).status).toBe(200);
+      expect((await callCapacity(newKey)).status).toBe(200);
+
+      // The list shows the old key in its overlap and the new one as its replacement.
+      const newPrefix = newKey.slice(0, 13);
+      await page.getByText(`replaces ${prefix}…`).first().waitFor();
+      await settle(page);
+      await screenshot(page, "keys-rotated");
+
+      // Revoke the new key: it answers 401 from then on; the old one keeps its overlap.
+      await page.getByRole("button", { name: `Revoke e2e capacity probe (${newPrefix})` }).first().click();
+      const revoke = page.getByRole("dialog", { name: "Revoke e2e capacity probe?" });
+      await revoke.getByRole("button", { name: "Revoke key" }).click();
+      await revoke.waitFor({ state: "hidden" });
+      const revoked = await callCapacity(newKey);
+      expect(revoked.status).toBe(401);
+      expect(revoked.headers.get("content-type")).toContain("application/problem+json");
+      expect((await callCapacity(key)).status).toBe(200);
+    });
+  });
+
+  test("a billing admin signed in with the password sees no keys", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      await signInWithPassword(e2e, page, BILLING.email, DEMO_PASSWORD);
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}`);
+      await sectionLink(s, "Meter").waitFor();
+      expect(await sectionLink(s, "Keys").count()).toBe(0);
+      expect(await page.getByRole("link", { name: /^Keys\b/ }).count()).toBe(0);
+
+      await page.goto(`${e2e.baseUrl}/console/${ORG}/keys`);
+      await page.getByText("Keys are not available to the billing role").waitFor();
+      expect(await page.getByRole("button", { name: "Create a key" }).count()).toBe(0);
+      await settle(page);
+      await screenshot(page, "keys-billing-refused");
+
+      const cookie = await s.cookieHeader();
+      const res = await fetch(`${e2e.baseUrl}/api/console/orgs/${ORG}/keys`, { headers: { cookie } });
+      expect(res.status).toBe(403);
+      expect(res.headers.get("content-type")).toContain("application/problem+json");
+      // The same cookies do open what billing may see.
+      expect((await fetch(`${e2e.baseUrl}/api/console/orgs/${ORG}/usage`, { headers: { cookie } })).status).toBe(200);
+    });
+  });
+
+  test("the bench runs an endpoint from its generated form and shows the status, curl and TypeScript", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      await signInWithLink(e2e, page, DEVELOPER.email);
+      await sectionLink(s, "Bench").click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/try`);
+      await page.getByRole("navigation", { name: "Endpoints" }).getByRole("button", { name: "POST /capacity" }).click();
+      await page.getByRole("heading", { name: "POST /api/v1/capacity" }).waitFor();
+
+      const form = page.getByRole("form", { name: "Request" });
+      await form.getByLabel(/^channel/).selectOption("bsc");
+      await form.getByLabel(/^p\s*number/).fill("0.11");
+      await settle(page);
+      await screenshot(page, "try");
+      await form.getByRole("button", { name: "Run with a test key" }).click();
+
+      const result = page.getByRole("region", { name: "Response" });
+      await result.getByText(/^200\b/).first().waitFor();
+      await expect.poll(() => page.getByLabel("response", { exact: true }).innerText()).toContain('"bits per channel use"');
+      const curl = await page.getByLabel("curl", { exact: true }).innerText();
+      expect(curl).toContain(`curl -sS -X POST '${e2e.baseUrl}/api/v1/capacity'`);
+      expect(curl).toContain('"channel":"bsc"');
+      expect(curl).toContain("$PARITAS_KEY");
+      const ts = await page.getByLabel("TypeScript", { exact: true }).innerText();
+      expect(ts).toContain('paritas.POST("/capacity"');
+      expect(ts).toContain("createParitasClient");
+      await result.scrollIntoViewIfNeeded();
+      await screenshot(page, "try-result");
+    });
+  });
+
+  test("an owner invites a new address, which signs up by link and joins", async () => {
+    const invitee = "kai.moreau@tidewater.example";
+    let inviteLink = "";
+    await inSession(async (s) => {
+      const { page } = s;
+      await signInWithLink(e2e, page, OWNER.email);
+      await sectionLink(s, "People").click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/members`);
+      const invite = page.getByRole("region", { name: "Invite someone" });
+      await invite.getByLabel("E-mail").fill(invitee);
+      await invite.getByLabel("Role").selectOption("developer");
+      const since = new Date();
+      await invite.getByRole("button", { name: "Send invitation" }).click();
+      await invite.getByText(`Invitation sent to ${invitee}`).waitFor();
+      await page.getByRole("table", { name: "Pending invitations" }).getByRole("row").filter({ hasText: invitee }).waitFor();
+      await settle(page);
+      await screenshot(page, "members");
+      const mail = await waitForMessage(e2e.mailboxDir, invitee, { since, timeoutMs: 10_000 });
+      expect(mail.subject).toBe(`Join ${DEMO_ORG.name} on Paritas`);
+      inviteLink = linkIn(mail.text, `${e2e.baseUrl}/console/invite/`);
+    });
+
+    await inSession(async (s) => {
+      const { page } = s;
+      // Signed out, the invitation sends the visitor to /signin and brings them back after.
+      await page.goto(inviteLink);
+      await page.waitForURL((u) => u.pathname === "/signin" && (u.searchParams.get("callbackUrl") ?? "").includes("/console/invite/"));
+      await signInWithLink(e2e, page, invitee, { fromCurrentPage: true });
+      await page.waitForURL(inviteLink);
+      await page.getByRole("button", { name: "Accept the invitation" }).waitFor();
+      await expect.poll(() => page.getByText(invitee).first().isVisible()).toBe(true);
+      await settle(page);
+      await screenshot(page, "invite");
+      await page.getByRole("button", { name: "Accept the invitation" }).click();
+      await page.getByText(`You are now a member of ${DEMO_ORG.name}`).waitFor();
+      await page.getByRole("link", { name: `Open ${DEMO_ORG.name}` }).click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}`);
+      await sectionLink(s, "Keys").waitFor();
+    });
+
+    await inSession(async (s) => {
+      const { page } = s;
+      await signInWithPassword(e2e, page, OWNER.email, DEMO_PASSWORD);
+      await page.goto(`${e2e.baseUrl}/console/${ORG}/members`);
+      await page.getByRole("table", { name: `Members of ${DEMO_ORG.name}` }).getByRole("row").filter({ hasText: invitee }).waitFor();
+      await sectionLink(s, "Ledger").click();
+      await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/audit`);
+      const ledger = page.getByRole("table", { name: /^Ledger entries/ });
+      await ledger.getByRole("row").filter({ hasText: "member.joined" }).first().waitFor();
+      await ledger.getByRole("row").filter({ hasText: "member.invited" }).first().waitFor();
+      await settle(page);
+      await screenshot(page, "audit");
+    });
+  });
+
+  test("the keys page fits a phone screen", async () => {
+    await inSession(
+      async (s) => {
+        const { page } = s;
+        await signInWithPassword(e2e, page, OWNER.email, DEMO_PASSWORD);
+        await page.goto(`${e2e.baseUrl}/console/${ORG}/keys`);
+        await page.getByRole("heading", { name: "API keys", level: 1 }).waitFor();
+        await page.getByRole("list", { name: `API keys of ${ORG}` }).waitFor();
+        expect(await page.getByRole("table").count()).toBe(0); // the table gives way to cards
+        await settle(page);
+        const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+        expect(overflow).toBeLessThanOrEqual(0);
+        await screenshot(page, "keys-390");
+      },
+      { viewport: PHONE },
+    );
+  });
+});
