@@ -58,23 +58,11 @@ export interface MembersPayload {
   invitations: Invitation[];
 }
 
-export type KeyMode = "test" | "live";
-export type KeyState = "active" | "expiring" | "expired" | "revoked";
-
-export interface KeyRecord {
-  id: number;
-  name: string;
-  prefix: string;
-  mode: KeyMode;
-  scopes: string[];
-  createdBy: { id: number; email: string } | null;
-  createdAt: string;
-  lastUsedAt: string | null;
-  expiresAt: string | null;
-  revokedAt: string | null;
-  state: KeyState;
-  rotatedFromKeyId: number | null;
-}
+// The key row is the server's own type (type-only import: nothing of the server reaches the bundle).
+export type { KeyMode } from "@/db/schema";
+export type { ConsoleKeyState as KeyState, KeyRecord } from "@/lib/console/keys";
+import type { KeyMode } from "@/db/schema";
+import type { KeyRecord } from "@/lib/console/keys";
 
 export interface NewKeyInput {
   name: string;
