@@ -1,6 +1,6 @@
 "use client";
 
-import { useId, useState, type InputHTMLAttributes, type ReactNode, type Ref } from "react";
+import { useEffect, useId, useRef, useState, type FormEvent, type FormHTMLAttributes, type InputHTMLAttributes, type ReactNode, type Ref } from "react";
 
 const inputClass =
   "block w-full rounded-md border bg-paper px-3 py-2 text-ink shadow-inner shadow-black/[0.03] placeholder:text-ink-2/70 disabled:opacity-60";
@@ -106,5 +106,39 @@ export function Notice({ tone, children, ref }: { tone: "error" | "note"; childr
     <div ref={ref} tabIndex={-1} role={tone === "error" ? "alert" : "status"} className={`rounded-md border border-l-4 px-3.5 py-2.5 text-sm ${look}`}>
       {children}
     </div>
+  );
+}
+
+interface AuthFormProps extends Omit<FormHTMLAttributes<HTMLFormElement>, "onSubmit" | "method"> {
+  onSubmit: (e: FormEvent<HTMLFormElement>) => void;
+  busy: boolean;
+  /** A message about the whole form; when it appears, focus moves to it so it is heard at once. */
+  failure?: ReactNode;
+  /** Shown above the failure message (a heading and its lead). */
+  heading?: ReactNode;
+  children: ReactNode;
+}
+
+/**
+ * The frame of every sign-in page form. method="post" matters: a form submitted before the page's
+ * script has loaded must not put the password into the address bar (and the server's logs).
+ */
+export function AuthForm({ onSubmit, busy, failure, heading, children, ...rest }: AuthFormProps) {
+  const alertRef = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (failure) alertRef.current?.focus();
+  }, [failure]);
+  return (
+    <form method="post" noValidate onSubmit={onSubmit} aria-busy={busy} {...rest}>
+      {heading}
+      {failure ? (
+        <div className={heading ? "mt-4" : "mb-4"}>
+          <Notice tone="error" ref={alertRef}>
+            {failure}
+          </Notice>
+        </div>
+      ) : null}
+      {children}
+    </form>
   );
 }

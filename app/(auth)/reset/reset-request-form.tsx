@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useEffect, useRef, useState, type FormEvent } from "react";
-import { Field, Notice, Submit } from "../fields";
+import { AuthForm, Field, Submit } from "../fields";
 import { Sheet } from "../intro";
 import { looksLikeEmail, postJson } from "../post";
 
@@ -13,12 +13,8 @@ export function ResetRequestForm({ devMailbox }: { devMailbox: boolean }) {
   const [sentTo, setSentTo] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const emailRef = useRef<HTMLInputElement>(null);
-  const alertRef = useRef<HTMLDivElement>(null);
   const doneRef = useRef<HTMLHeadingElement>(null);
 
-  useEffect(() => {
-    if (failure) alertRef.current?.focus();
-  }, [failure]);
   useEffect(() => {
     if (sentTo) doneRef.current?.focus();
   }, [sentTo]);
@@ -67,14 +63,7 @@ export function ResetRequestForm({ devMailbox }: { devMailbox: boolean }) {
 
   return (
     <Sheet>
-      <form onSubmit={submit} noValidate aria-busy={busy}>
-        {failure ? (
-          <div className="mb-4">
-            <Notice tone="error" ref={alertRef}>
-              {failure}
-            </Notice>
-          </div>
-        ) : null}
+      <AuthForm onSubmit={submit} busy={busy} failure={failure}>
         <Field
           ref={emailRef}
           label="E-mail"
@@ -92,7 +81,7 @@ export function ResetRequestForm({ devMailbox }: { devMailbox: boolean }) {
             Mail me a reset link
           </Submit>
         </div>
-      </form>
+      </AuthForm>
     </Sheet>
   );
 }

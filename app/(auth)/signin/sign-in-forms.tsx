@@ -3,8 +3,8 @@
 import { signIn } from "next-auth/react";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useEffect, useRef, useState, type FormEvent } from "react";
-import { Field, Notice, PasswordField, Submit } from "../fields";
+import { useRef, useState, type FormEvent } from "react";
+import { AuthForm, Field, Notice, PasswordField, Submit } from "../fields";
 import { looksLikeEmail, safeReturnPath } from "../post";
 import { Sheet } from "../intro";
 
@@ -36,13 +36,7 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
   const initial = error ? (ERRORS[error] ?? UNKNOWN) : null;
   const [failure, setFailure] = useState<{ form: "password" | "link"; text: string } | null>(initial);
   const [fieldErrors, setFieldErrors] = useState<{ email?: string; password?: string; linkEmail?: string }>({});
-  const alertRef = useRef<HTMLDivElement>(null);
   const emailRef = useRef<HTMLInputElement>(null);
-
-  // A failure moves focus to its message, so keyboard and screen-reader users hear it at once.
-  useEffect(() => {
-    if (failure) alertRef.current?.focus();
-  }, [failure]);
 
   async function withPassword(e: FormEvent) {
     e.preventDefault();
@@ -99,17 +93,17 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
       ) : null}
 
       <Sheet>
-        <form onSubmit={withPassword} noValidate aria-labelledby="password-heading" aria-busy={busy === "password"}>
-          <h2 id="password-heading" className="text-lg font-semibold">
-            With your password
-          </h2>
-          {failure?.form === "password" ? (
-            <div className="mt-4">
-              <Notice tone="error" ref={alertRef}>
-                {failure.text}
-              </Notice>
-            </div>
-          ) : null}
+        <AuthForm
+          onSubmit={withPassword}
+          busy={busy === "password"}
+          aria-labelledby="password-heading"
+          failure={failure?.form === "password" ? failure.text : null}
+          heading={
+            <h2 id="password-heading" className="text-lg font-semibold">
+              With your password
+            </h2>
+          }
+        >
           <Field
             ref={emailRef}
             className="mt-4"
@@ -143,7 +137,7 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
               Sign in
             </Submit>
           </div>
-        </form>
+        </AuthForm>
 
         <div className="my-6 flex items-center gap-3 text-xs tracking-wide text-ink-2 uppercase" aria-hidden="true">
           <span className="h-px flex-1 bg-rule" />
@@ -151,20 +145,22 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
           <span className="h-px flex-1 bg-rule" />
         </div>
 
-        <form onSubmit={withLink} noValidate aria-labelledby="link-heading" aria-busy={busy === "link"}>
-          <h2 id="link-heading" className="text-lg font-semibold">
-            With a link by e-mail
-          </h2>
-          <p className="mt-1 text-sm text-ink-2">
-            We mail a link that signs you in once, within 30 minutes. An address new to Paritas gets an account on the way.
-          </p>
-          {failure?.form === "link" ? (
-            <div className="mt-4">
-              <Notice tone="error" ref={alertRef}>
-                {failure.text}
-              </Notice>
-            </div>
-          ) : null}
+        <AuthForm
+          onSubmit={withLink}
+          busy={busy === "link"}
+          aria-labelledby="link-heading"
+          failure={failure?.form === "link" ? failure.text : null}
+          heading={
+            <>
+              <h2 id="link-heading" className="text-lg font-semibold">
+                With a link by e-mail
+              </h2>
+              <p className="mt-1 text-sm text-ink-2">
+                We mail a link that signs you in once, within 30 minutes. An address new to Paritas gets an account on the way.
+              </p>
+            </>
+          }
+        >
           <Field
             className="mt-4"
             label="E-mail for the link"
@@ -182,7 +178,7 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
               E-mail me a link
             </Submit>
           </div>
-        </form>
+        </AuthForm>
       </Sheet>
     </>
   );

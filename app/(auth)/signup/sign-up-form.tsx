@@ -2,8 +2,8 @@
 
 import { signIn } from "next-auth/react";
 import { useRouter } from "next/navigation";
-import { useEffect, useRef, useState, type FormEvent } from "react";
-import { Field, Notice, PasswordField, Submit } from "../fields";
+import { useRef, useState, type FormEvent } from "react";
+import { AuthForm, Field, PasswordField, Submit } from "../fields";
 import { Sheet } from "../intro";
 import { looksLikeEmail, postJson } from "../post";
 
@@ -18,11 +18,6 @@ export function SignUpForm() {
   const nameRef = useRef<HTMLInputElement>(null);
   const emailRef = useRef<HTMLInputElement>(null);
   const passwordRef = useRef<HTMLInputElement>(null);
-  const alertRef = useRef<HTMLDivElement>(null);
-
-  useEffect(() => {
-    if (failure) alertRef.current?.focus();
-  }, [failure]);
 
   const set = (k: keyof typeof values) => (e: { target: { value: string } }) => setValues((v) => ({ ...v, [k]: e.target.value }));
 
@@ -62,14 +57,7 @@ export function SignUpForm() {
 
   return (
     <Sheet>
-      <form onSubmit={submit} noValidate aria-busy={busy}>
-        {failure ? (
-          <div className="mb-4">
-            <Notice tone="error" ref={alertRef}>
-              {failure}
-            </Notice>
-          </div>
-        ) : null}
+      <AuthForm onSubmit={submit} busy={busy} failure={failure}>
         <Field ref={nameRef} label="Name" name="name" autoComplete="name" value={values.name} onChange={set("name")} error={errors.name} disabled={busy} />
         <Field
           ref={emailRef}
@@ -102,7 +90,7 @@ export function SignUpForm() {
             Create account
           </Submit>
         </div>
-      </form>
+      </AuthForm>
     </Sheet>
   );
 }

@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { useEffect, useRef, useState, type FormEvent } from "react";
-import { Notice, PasswordField, Submit } from "../../fields";
+import { AuthForm, PasswordField, Submit } from "../../fields";
 import { Sheet } from "../../intro";
 import { postJson } from "../../post";
 
@@ -15,12 +15,8 @@ export function NewPasswordForm({ token }: { token: string }) {
   const [busy, setBusy] = useState(false);
   const passwordRef = useRef<HTMLInputElement>(null);
   const repeatRef = useRef<HTMLInputElement>(null);
-  const alertRef = useRef<HTMLDivElement>(null);
   const doneRef = useRef<HTMLHeadingElement>(null);
 
-  useEffect(() => {
-    if (failure) alertRef.current?.focus();
-  }, [failure]);
   useEffect(() => {
     if (done) doneRef.current?.focus();
   }, [done]);
@@ -65,14 +61,17 @@ export function NewPasswordForm({ token }: { token: string }) {
 
   return (
     <Sheet>
-      <form onSubmit={submit} noValidate aria-busy={busy}>
-        {failure ? (
-          <div className="mb-4">
-            <Notice tone="error" ref={alertRef}>
+      <AuthForm
+        onSubmit={submit}
+        busy={busy}
+        failure={
+          failure ? (
+            <>
               {failure.text} {failure.expired ? <Link href="/reset">Ask for a new link.</Link> : null}
-            </Notice>
-          </div>
-        ) : null}
+            </>
+          ) : null
+        }
+      >
         <PasswordField
           ref={passwordRef}
           label="New password"
@@ -100,7 +99,7 @@ export function NewPasswordForm({ token }: { token: string }) {
             Set new password
           </Submit>
         </div>
-      </form>
+      </AuthForm>
     </Sheet>
   );
 }
