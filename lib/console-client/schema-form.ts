@@ -22,11 +22,18 @@ export interface FieldSpec {
   /** enum: the allowed values, in the schema's order. */
   options?: Primitive[];
   default?: unknown;
-  minimum?: number;
-  maximum?: number;
+  /** number/integer: the range, each end inclusive or exclusive as the schema says. */
+  minimum?: Bound;
+  maximum?: Bound;
   /** json: what the value is ("array", "object", "one of several shapes"). */
   shape?: string;
   pattern?: string;
+}
+
+/** One end of a numeric range; `exclusive` for JSON Schema's exclusiveMinimum / exclusiveMaximum (zod's gt / lt). */
+export interface Bound {
+  value: number;
+  exclusive: boolean;
 }
 
 export type FormPlan =
@@ -57,6 +64,19 @@ const branches = (s: Schema): unknown[] | undefined => (Array.isArray(s.oneOf) ?
 
 function num(v: unknown): number | undefined {
   return typeof v === "number" && Number.isFinite(v) ? v : undefined;
+}
+
+/**
+ * The binding end of a range from JSON Schema 2020-12's inclusive and exclusive keywords
+ * (both numbers there); when both are given the tighter one wins, an exclusive one on a tie.
+ */
+function boundOf(inclusive: unknown, exclusive: unknown, side: "min" | "max"): Bound | undefined {
+  const inc = num(inclusive);
+  const exc = num(exclusive);
+  if (exc === undefined) return inc === undefined ? undefined : { value: inc, exclusive: false };
+  if (inc === undefined) return { value: exc, exclusive: true };
+  const incTighter = side === "min" ? inc > exc : inc < exc;
+  return incTighter ? { value: inc, exclusive: false } : { value: exc, exclusive: true };
 }
 
 function constValues(s: Schema, root: Schema): Primitive[] | undefined {
@@ -98,7 +118,7 @@ function fieldOf(name: string, raw: unknown, required: boolean, root: Schema): F
   const t = typeOf(s);
   if (!branches(s)) {
     if (t === "number" || t === "integer")
-      return { ...base, kind: t, minimum: num(s.minimum) ?? num(s.exclusiveMinimum), maximum: num(s.maximum) ?? num(s.exclusiveMaximum) };
+      return { ...base, kind: t, minimum: boundOf(s.minimum, s.exclusiveMinimum, "min"), maximum: boundOf(s.maximum, s.exclusiveMaximum, "max") };
     if (t === "boolean") return { ...base, kind: "boolean" };
     if (t === "string") return { ...base, kind: "string", pattern: typeof s.pattern === "string" ? s.pattern : undefined };
   }
@@ -197,6 +217,17 @@ export function valuesFor(plan: FormPlan, fields: FieldSpec[], example: unknown,
 }
 
 export const optionValue = optionKey;
+
+/** The range in words for a field's hint: "0 to 1", "above 0, at most 16", "at least 1". */
+export function rangeHint(f: Pick<FieldSpec, "minimum" | "maximum">): string | null {
+  const { minimum: lo, maximum: hi } = f;
+  if (lo && hi && !lo.exclusive && !hi.exclusive) return `${lo.value} to ${hi.value}`;
+  const parts = [
+    lo ? `${lo.exclusive ? "above" : "at least"} ${lo.value}` : null,
+    hi ? `${hi.exclusive ? "below" : "at most"} ${hi.value}` : null,
+  ].filter(Boolean);
+  return parts.length ? parts.join(", ") : null;
+}
 
 function fieldSchema(f: FieldSpec) {
   const missing = (ctx: z.RefinementCtx) => {

@@ -13,6 +13,7 @@ import {
   buildFormSchema,
   optionValue,
   planForm,
+  rangeHint,
   RAW_FIELD,
   valuesFor,
   variantOf,
@@ -29,13 +30,6 @@ function topField(pointer: string, plan: FormPlan): string {
   if (plan.kind === "raw") return RAW_FIELD;
   const first = pointer.split("/")[1];
   return first ? first.replace(/~1/g, "/").replace(/~0/g, "~") : "root";
-}
-
-function rangeHint(f: FieldSpec): string | null {
-  if (f.minimum !== undefined && f.maximum !== undefined) return `${f.minimum} to ${f.maximum}`;
-  if (f.minimum !== undefined) return `at least ${f.minimum}`;
-  if (f.maximum !== undefined) return `at most ${f.maximum}`;
-  return null;
 }
 
 function Field({
@@ -79,8 +73,9 @@ function Field({
         <input
           type="number"
           step={f.kind === "integer" ? 1 : "any"}
-          min={f.minimum}
-          max={f.maximum}
+          // The browser's min/max are inclusive, so only inclusive ends go there; the schema checks the rest.
+          min={f.minimum && !f.minimum.exclusive ? f.minimum.value : undefined}
+          max={f.maximum && !f.maximum.exclusive ? f.maximum.value : undefined}
           inputMode={f.kind === "integer" ? "numeric" : "decimal"}
           className={`${inputBase} mt-1 max-w-xs font-mono`}
           {...common}
