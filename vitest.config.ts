@@ -1,10 +1,12 @@
 import { defineConfig } from "vitest/config";
 import { fileURLToPath } from "node:url";
 
+/** Unit, API, console and CLI tests. The browser tests have their own config (vitest.e2e.config.ts). */
 export default defineConfig({
   resolve: { alias: { "@": fileURLToPath(new URL("./", import.meta.url)) } },
   test: {
     include: ["tests/**/*.test.ts"],
+    exclude: ["tests/e2e/**", "**/node_modules/**"],
     setupFiles: ["tests/setup.ts"],
     pool: "forks",
     testTimeout: 20000,

@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Makes sure the browser the end-to-end tests drive (tests/e2e) is installed: Debian's Chromium
-# at /usr/bin/chromium. Run by `npm test` through the "pretest" hook.
+# at /usr/bin/chromium. Run by `npm run test:e2e` (part of `npm test`) and by .ci/run.
 #   - present            → exit 0
 #   - missing, as root   → apt-get update && apt-get install -y chromium; exit with apt's status
 #   - missing, not root  → say how to install it; exit 1

@@ -129,6 +129,12 @@ export interface Session {
   close(): Promise<void>;
 }
 
+export interface SessionOptions {
+  viewport?: { width: number; height: number };
+  /** false: the page as a browser sees it before (or without) its script. */
+  javaScriptEnabled?: boolean;
+}
+
 export interface E2E {
   baseUrl: string;
   port: number;
@@ -138,7 +144,7 @@ export interface E2E {
   browser: Browser;
   build: { built: boolean; ms: number };
   serverOutput(): string;
-  session(opts?: { viewport?: { width: number; height: number } }): Promise<Session>;
+  session(opts?: SessionOptions): Promise<Session>;
   stop(): Promise<void>;
 }
 
@@ -240,8 +246,14 @@ export async function startE2E(): Promise<E2E> {
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   const b = browser;
 
-  async function session(opts: { viewport?: { width: number; height: number } } = {}): Promise<Session> {
-    const context = await b.newContext({ viewport: opts.viewport ?? DESKTOP, locale: "en-GB", timezoneId: "UTC", colorScheme: "light" });
+  async function session(opts: SessionOptions = {}): Promise<Session> {
+    const context = await b.newContext({
+      viewport: opts.viewport ?? DESKTOP,
+      javaScriptEnabled: opts.javaScriptEnabled ?? true,
+      locale: "en-GB",
+      timezoneId: "UTC",
+      colorScheme: "light",
+    });
     context.setDefaultTimeout(15_000);
     const offHost: string[] = [];
     const pageErrors: string[] = [];
@@ -345,7 +357,7 @@ export async function signInWithLink(
   page: Page,
   email: string,
   opts: { screenshotAs?: string; checkMailScreenshotAs?: string; fromCurrentPage?: boolean } = {},
-): Promise<string> {
+): Promise<{ link: string; checkMailScrollY: number }> {
   const since = new Date();
   if (!opts.fromCurrentPage) await page.goto(`${e2e.baseUrl}/signin`);
   const send = page.getByRole("button", { name: "E-mail me a link" });
@@ -354,15 +366,14 @@ export async function signInWithLink(
   if (opts.screenshotAs) await screenshot(page, opts.screenshotAs);
   await send.click();
   await page.waitForURL(/\/signin\/check-mail/);
-  if (opts.checkMailScreenshotAs) {
-    await page.getByRole("heading", { name: "Check your inbox" }).waitFor();
-    await screenshot(page, opts.checkMailScreenshotAs);
-  }
+  await page.getByRole("heading", { name: "Check your inbox" }).waitFor();
+  const checkMailScrollY = await page.evaluate(() => window.scrollY);
+  if (opts.checkMailScreenshotAs) await screenshot(page, opts.checkMailScreenshotAs);
   const message = await waitForMessage(e2e.mailboxDir, email, { since, timeoutMs: 10_000 });
   const link = linkIn(message.text, `${e2e.baseUrl}/api/auth/callback/email`);
   await page.goto(link);
   await page.waitForURL((u) => u.pathname.startsWith("/console"));
-  return link;
+  return { link, checkMailScrollY };
 }
 
 /** Sign in with e-mail and password on /signin; resolves once the console has opened. */

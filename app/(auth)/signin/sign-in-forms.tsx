@@ -75,7 +75,9 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
     setBusy("link");
     const res = await signIn<"email">("email", { email: address, redirect: false, callbackUrl: safeReturnPath(callbackUrl) });
     if (res?.ok && !res.error) {
-      router.push(`/signin/check-mail?to=${encodeURIComponent(address)}`);
+      // The router would only scroll the new page's own segment into view, leaving the site header above the fold.
+      window.scrollTo(0, 0);
+      router.push(`/signin/check-mail?to=${encodeURIComponent(address)}`, { scroll: false });
       return;
     }
     setBusy(null);

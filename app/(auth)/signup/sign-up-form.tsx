@@ -52,7 +52,9 @@ export function SignUpForm() {
       setBusy(false);
       return setFailure("The account is set up, but the confirmation link could not be sent. Ask for one on the sign-in page.");
     }
-    router.push(`/signin/check-mail?from=signup&to=${encodeURIComponent(input.email)}`);
+    // The router would only scroll the new page's own segment into view, leaving the site header above the fold.
+    window.scrollTo(0, 0);
+    router.push(`/signin/check-mail?from=signup&to=${encodeURIComponent(input.email)}`, { scroll: false });
   }
 
   return (

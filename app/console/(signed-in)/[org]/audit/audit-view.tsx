@@ -4,6 +4,7 @@ import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import { useId, useState } from "react";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
+import { Email } from "@/components/console/email";
 import { Empty, LoadError, Loading } from "@/components/console/states";
 import { buttonSecondary, buttonSmall, labelBase, panel, selectBase, tableHead } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
@@ -29,7 +30,8 @@ const PAGE_SIZES = [10, 25, 50, 100] as const;
 function Actor({ a }: { a: AuditEntry["actor"] }) {
   if (a.kind === "cli") return <span>operator CLI</span>;
   if (a.kind === "system") return <span className="text-ink-2">system</span>;
-  return <span className="[overflow-wrap:anywhere]">{a.email ?? (a.userId !== undefined ? `user #${a.userId}` : "a user")}</span>;
+  if (a.email) return <Email address={a.email} />;
+  return <span>{a.userId !== undefined ? `user #${a.userId}` : "a user"}</span>;
 }
 
 const asRecord = (v: unknown): Record<string, unknown> => (typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
@@ -43,7 +45,7 @@ function Target({ e }: { e: AuditEntry }) {
       </span>
     );
   if (e.targetType === "user" || e.targetType === "invitation")
-    return <span className="[overflow-wrap:anywhere]">{typeof d.email === "string" ? d.email : `${e.targetType} #${e.targetId}`}</span>;
+    return typeof d.email === "string" ? <Email address={d.email} /> : <span>{`${e.targetType} #${e.targetId}`}</span>;
   if (!e.targetType) return <span className="text-ink-2">—</span>;
   return (
     <span>

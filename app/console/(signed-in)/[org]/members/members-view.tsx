@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { RoleBadge } from "@/components/console/badges";
 import { ConfirmDialog } from "@/components/console/confirm-dialog";
+import { Email } from "@/components/console/email";
 import { useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
 import { Empty, LoadError, Loading } from "@/components/console/states";
@@ -134,7 +135,7 @@ function MemberRow({ m, me, isOwner, onPending }: { m: Member; me: number | unde
           {m.name ?? m.email}
           {self ? <span className="ml-2 rounded bg-sunken px-1.5 py-px text-xs font-normal text-ink-2">you</span> : null}
         </span>
-        {m.name ? <span className="block text-xs text-ink-2">{m.email}</span> : null}
+        {m.name ? <Email address={m.email} className="block text-xs text-ink-2" /> : null}
       </th>
       <td className="px-3 py-2.5">
         {isOwner ? (
@@ -289,7 +290,9 @@ function InvitationRow({ i, onRevoke }: { i: Invitation; onRevoke: () => void })
   const [expired] = useState(() => Date.parse(i.expiresAt) <= Date.now());
   return (
     <tr className="border-t border-rule align-top">
-      <th scope="row" className="px-3 py-2.5 text-left font-medium">{i.email}</th>
+      <th scope="row" className="px-3 py-2.5 text-left font-medium">
+        <Email address={i.email} />
+      </th>
       <td className="px-3 py-2.5"><RoleBadge role={i.role} /></td>
       <td className="px-3 py-2.5 text-ink-2">{i.invitedBy?.email ?? "—"}</td>
       <td className="px-3 py-2.5">

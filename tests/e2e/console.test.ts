@@ -61,7 +61,8 @@ describe("console in a browser", { timeout: 90_000 }, () => {
   test("signs in with an e-mail link read from the mailbox and lands in the console", async () => {
     await inSession(async (s) => {
       const { page } = s;
-      const link = await signInWithLink(e2e, page, DEVELOPER.email, { screenshotAs: "signin", checkMailScreenshotAs: "check-mail" });
+      const { link, checkMailScrollY } = await signInWithLink(e2e, page, DEVELOPER.email, { screenshotAs: "signin", checkMailScreenshotAs: "check-mail" });
+      expect(checkMailScrollY).toBe(0); // the page after the form opens at its top, site header in view
       await page.waitForURL(`${e2e.baseUrl}/console/${ORG}`);
       await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe(DEMO_ORG.name);
       await sectionLink(s, "Keys").waitFor();
@@ -166,6 +167,31 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(revoked.headers.get("content-type")).toContain("application/problem+json");
       expect((await callCapacity(key)).status).toBe(200);
     });
+  });
+
+  test("a sign-in form sent before its script runs keeps the password out of the address", async () => {
+    const secret = "not-in-any-url-7731";
+    await inSession(
+      async (s) => {
+        const { page } = s;
+        await page.goto(`${e2e.baseUrl}/signin`);
+        await page.getByLabel("E-mail", { exact: true }).fill(OWNER.email);
+        await page.locator('input[name="password"]').fill(secret);
+        const navigations: { method: string; url: string }[] = [];
+        page.on("request", (r) => {
+          if (r.isNavigationRequest()) navigations.push({ method: r.method(), url: r.url() });
+        });
+        const [answer] = await Promise.all([page.waitForNavigation(), page.getByRole("button", { name: "Sign in", exact: true }).click()]);
+        expect(answer?.status()).toBe(200); // the sign-in page again, as for any visitor without script
+        expect(navigations.map((n) => n.method)).toEqual(["POST"]);
+        expect(navigations.every((n) => !n.url.includes(secret))).toBe(true);
+        expect(page.url()).not.toContain(secret);
+        // Without script nobody is signed in, and nothing on the server broke.
+        expect((await s.context.cookies(e2e.baseUrl)).some((c) => c.name === "next-auth.session-token")).toBe(false);
+        expect((await fetch(`${e2e.baseUrl}/api/health`)).status).toBe(200);
+      },
+      { javaScriptEnabled: false },
+    );
   });
 
   test("a billing admin signed in with the password sees no keys", async () => {
@@ -274,6 +300,26 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await ledger.getByRole("row").filter({ hasText: "member.joined" }).first().waitFor();
       await ledger.getByRole("row").filter({ hasText: "member.invited" }).first().waitFor();
       await settle(page);
+      // Addresses in the ledger wrap only before "@" or a dot of the domain, never inside a name.
+      const wraps = await ledger.locator("tbody tr td:nth-child(2), tbody tr td:nth-child(4)").evaluateAll((cells) =>
+        cells.flatMap((cell) => {
+          const text = cell.textContent ?? "";
+          if (!text.includes("@")) return [];
+          const walker = document.createTreeWalker(cell, NodeFilter.SHOW_TEXT);
+          const chars: { ch: string; top: number }[] = [];
+          for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+            for (let i = 0; i < (n.textContent ?? "").length; i++) {
+              const r = document.createRange();
+              r.setStart(n, i);
+              r.setEnd(n, i + 1);
+              const rect = r.getClientRects()[0];
+              if (rect) chars.push({ ch: n.textContent![i]!, top: Math.round(rect.top) });
+            }
+          }
+          return chars.filter((c, i) => i > 0 && c.top > chars[i - 1]!.top).map((c) => `${text}: line starts at "${c.ch}"`);
+        }),
+      );
+      expect(wraps.filter((w) => !/"[@.]"$/.test(w))).toEqual([]);
       await screenshot(page, "audit");
     });
   });
