@@ -1,5 +1,4 @@
 import type { Db } from "@/db";
-import { nowIso } from "@/db";
 import { insertApiKey } from "@/db/queries/api-keys";
 import { insertAuthUser } from "@/db/queries/auth";
 import { insertAudit } from "@/db/queries/audit";
@@ -82,8 +81,61 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
         expires_at: state === "expired" ? new Date(now.getTime() - 5 * DAY).toISOString() : null,
         revoked_at: state === "revoked" ? new Date(now.getTime() - 12 * DAY).toISOString() : null,
       });
-      await insertAudit(tx, { orgId: org.id, actor: `user:${users[0]!.id}`, action: state === "revoked" ? "key.revoked" : "key.created", targetType: "api_key", targetId: k.id });
+      await insertAudit(tx, {
+        orgId: org.id,
+        actor: `user:${users[0]!.id}`,
+        action: state === "revoked" ? "key.revoked" : "key.created",
+        targetType: "api_key",
+        targetId: k.id,
+        details: { prefix, name, mode: "test" },
+      });
     }
+    // A live key in a rotation overlap: the shore station's relay key was replaced two days ago
+    // and the old one keeps working for five more days while the station picks up the new one.
+    const owner = users[0]!.id;
+    const relayOld = generateKey("live");
+    const oldRelay = await insertApiKey(tx, {
+      org_id: org.id,
+      name: "shore station relay",
+      mode: "live",
+      prefix: relayOld.prefix,
+      key_hash: relayOld.hash,
+      scopes: "compute",
+      created_by_user_id: owner,
+      created_at: new Date(now.getTime() - 90 * DAY).toISOString(),
+      last_used_at: new Date(now.getTime() - 3 * 3600_000).toISOString(),
+      expires_at: new Date(now.getTime() + 5 * DAY).toISOString(),
+    });
+    const relayNew = generateKey("live");
+    const newRelay = await insertApiKey(tx, {
+      org_id: org.id,
+      name: "shore station relay",
+      mode: "live",
+      prefix: relayNew.prefix,
+      key_hash: relayNew.hash,
+      scopes: "compute",
+      created_by_user_id: owner,
+      created_at: new Date(now.getTime() - 2 * DAY).toISOString(),
+      rotated_from_key_id: oldRelay.id,
+    });
+    await insertAudit(tx, {
+      orgId: org.id,
+      actor: `user:${owner}`,
+      action: "key.rotated",
+      targetType: "api_key",
+      targetId: oldRelay.id,
+      details: {
+        prefix: relayOld.prefix,
+        newKeyId: newRelay.id,
+        newPrefix: relayNew.prefix,
+        overlapHours: 7 * 24,
+        oldKeyEndsAt: oldRelay.expires_at,
+      },
+    });
+    // The developer's keys predate the 30 days of traffic below.
+    await tx.updateTable("api_keys").set({ created_at: new Date(now.getTime() - 45 * DAY).toISOString() }).where("id", "=", ci.record.id).execute();
+    await tx.updateTable("api_keys").set({ created_at: new Date(now.getTime() - 32 * DAY).toISOString() }).where("id", "=", bench.record.id).execute();
+
     // 30 days of CI traffic: heavier on weekdays, a few refused calls.
     const rand = rng(20261201);
     const rows = [];
@@ -111,7 +163,11 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       }
     }
     for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
-    await tx.updateTable("api_keys").set({ last_used_at: nowIso() }).where("id", "=", ci.record.id).execute();
+    // Each key was last used at its latest call.
+    for (const k of [ci.record, bench.record]) {
+      const last = rows.filter((r) => r.api_key_id === k.id).reduce((a, r) => (r.created_at > a ? r.created_at : a), "");
+      if (last) await tx.updateTable("api_keys").set({ last_used_at: last }).where("id", "=", k.id).execute();
+    }
     return org.id;
   });
 }
