@@ -3,130 +3,46 @@
  * Timestamps are ISO 8601 strings; days are YYYY-MM-DD (UTC).
  */
 
-export type Role = "owner" | "developer" | "billing";
+// Every shape below is the server's own, read off the function that produces it (type-only
+// imports: nothing of the server reaches the bundle), so the two cannot drift apart.
+import type { Role } from "@/db/schema";
+import { allScopes, scopeCatalogue } from "@/lib/api/scopes";
+import type { describeMe } from "@/lib/console/account";
+import type { listAuditEntries } from "@/lib/console/audit";
+import type { acceptInvitation, InvitationView } from "@/lib/console/invitations";
+import type { createOrgKey, createTryKey, rotateOrgKey } from "@/lib/console/keys";
+import type { listMembersOf } from "@/lib/console/members";
+import type { summarise } from "@/lib/console/usage";
+
+export type { Role, KeyMode } from "@/db/schema";
+export type { ConsoleKeyState as KeyState, KeyRecord } from "@/lib/console/keys";
+export type { MemberView as Member } from "@/lib/console/members";
+export type { AuditActor } from "@/lib/console/audit";
+export type { EndpointInfo, EndpointExample } from "@/lib/console/account";
+export type { InvitationView };
+
 export const ROLES: readonly Role[] = ["owner", "developer", "billing"];
 
-export interface OrgSummary {
-  slug: string;
-  name: string;
-  plan: string;
-  role: Role;
-}
+export type Me = Awaited<ReturnType<typeof describeMe>>;
+export type OrgSummary = Me["orgs"][number];
 
-export interface Me {
-  user: { id: number; email: string; name: string | null };
-  orgs: OrgSummary[];
-}
+export type MembersPayload = Awaited<ReturnType<typeof listMembersOf>>;
+export type Invitation = MembersPayload["invitations"][number];
 
-export interface EndpointExample {
-  summary: string;
-  value: unknown;
-}
+/** What the create-key form sends (the route checks it with newKeyInput). */
+export type { NewKeyInput } from "@/lib/console/keys";
+/** The plaintext key is in `key`: shown once, never stored by the console. */
+export type IssuedKey = Awaited<ReturnType<typeof createOrgKey>>;
+export type RotatedKey = Awaited<ReturnType<typeof rotateOrgKey>>;
+export type TryKey = Awaited<ReturnType<typeof createTryKey>>;
 
-export interface EndpointInfo {
-  id: string;
-  method: "GET" | "POST" | "DELETE";
-  /** The full path, including /api/v1. */
-  path: string;
-  scope: string;
-  tag?: string;
-  summary: string;
-  description: string;
-  examples: Record<string, EndpointExample>;
-  /** JSON Schema (2020-12) of the request body, or of the query parameters of a GET. */
-  inputSchema: Record<string, unknown>;
-}
+export type UsageReport = ReturnType<typeof summarise>;
+export type UsageSums = UsageReport["totals"];
 
-export interface Member {
-  userId: number;
-  email: string;
-  name: string | null;
-  role: Role;
-  joinedAt: string;
-}
+export type AuditPage = Awaited<ReturnType<typeof listAuditEntries>>;
+export type AuditEntry = AuditPage["entries"][number];
 
-export interface Invitation {
-  id: number;
-  email: string;
-  role: Role;
-  expiresAt: string;
-  invitedBy: { id: number; email: string } | null;
-}
+export type AcceptedInvitation = Awaited<ReturnType<typeof acceptInvitation>>;
 
-export interface MembersPayload {
-  members: Member[];
-  invitations: Invitation[];
-}
-
-// The key row is the server's own type (type-only import: nothing of the server reaches the bundle).
-export type { KeyMode } from "@/db/schema";
-export type { ConsoleKeyState as KeyState, KeyRecord } from "@/lib/console/keys";
-import type { KeyMode } from "@/db/schema";
-import type { KeyRecord } from "@/lib/console/keys";
-
-export interface NewKeyInput {
-  name: string;
-  scopes: string[];
-  mode: KeyMode;
-  expiresAt?: string | null;
-}
-
-export interface IssuedKey {
-  /** The plaintext key: shown once, never stored by the console. */
-  key: string;
-  record: KeyRecord;
-}
-
-export interface RotatedKey extends IssuedKey {
-  previous: { id: number; expiresAt: string };
-}
-
-export interface TryKey {
-  key: string;
-  expiresAt: string;
-}
-
-export interface UsageSums {
-  calls: number;
-  units: number;
-  errors: number;
-}
-
-export interface UsageReport {
-  from: string;
-  to: string;
-  totals: { calls: number; units: number; errors?: number };
-  daily: ({ day: string } & UsageSums)[];
-  byEndpoint: ({ endpoint: string } & UsageSums)[];
-  byKey: { keyId: number | null; prefix: string | null; name: string | null; calls: number; units: number; errors?: number }[];
-}
-
-export type AuditActor =
-  | { kind: "user"; id?: string; userId?: number; email?: string }
-  | { kind: "cli" | "system"; id?: string; userId?: undefined; email?: undefined };
-
-export interface AuditEntry {
-  id: number;
-  at: string;
-  actor: AuditActor;
-  action: string;
-  targetType: string | null;
-  targetId: number | string | null;
-  details: unknown;
-}
-
-export interface AuditPage {
-  entries: AuditEntry[];
-  nextCursor: string | null;
-}
-
-export interface AcceptedInvitation {
-  org: { slug: string; name: string };
-  role: Role;
-}
-
-/** Scopes a console user can give a key (lib/api/scopes.ts), with what each allows. */
-export const PUBLIC_SCOPES = [
-  { id: "compute", label: "compute", help: "Call the math endpoints: codes, encode, decode, distance, channels, capacity, links." },
-  { id: "usage:read", label: "usage:read", help: "Read the organisation's metered usage." },
-] as const;
+/** Scopes a console user can give a key, with what each allows (from lib/api/scopes.ts, which is plain data). */
+export const PUBLIC_SCOPES = allScopes.map((id) => ({ id, label: id, help: scopeCatalogue[id] }));

@@ -8,10 +8,30 @@ export async function describeMe(db: Db, user: { id: number; email: string; name
   return { user: { id: user.id, email: user.email, name: user.name }, orgs: await listOrgsOfUser(db, user.id) };
 }
 
-let catalogue: unknown[] | undefined;
+export interface EndpointExample {
+  summary: string;
+  value: unknown;
+}
+
+/** One public endpoint as the console's try page needs it. */
+export interface EndpointInfo {
+  id: string;
+  method: "GET" | "POST" | "DELETE";
+  /** The full path, including /api/v1. */
+  path: string;
+  scope: string;
+  tag?: string;
+  summary: string;
+  description: string;
+  examples: Record<string, EndpointExample>;
+  /** JSON Schema (2020-12) of the request body, or of the query parameters of a GET. */
+  inputSchema: Record<string, unknown>;
+}
+
+let catalogue: EndpointInfo[] | undefined;
 
 /** The public endpoints as the console's try page needs them: the full path, examples and the JSON Schema of the input. */
-export function endpointCatalogue() {
+export function endpointCatalogue(): EndpointInfo[] {
   catalogue ??= endpoints.map((e) => ({
     id: e.id,
     method: e.method,
@@ -21,7 +41,7 @@ export function endpointCatalogue() {
     summary: e.summary,
     description: e.description,
     examples: e.examples,
-    inputSchema: z.toJSONSchema(e.input, { io: "input" }),
+    inputSchema: z.toJSONSchema(e.input, { io: "input" }) as Record<string, unknown>,
   }));
   return catalogue;
 }

@@ -30,6 +30,7 @@ export const newKeyInput = z.strictObject({
     .transform((s) => new Date(s).toISOString())
     .nullish(),
 });
+export type NewKeyInput = z.input<typeof newKeyInput>;
 export const rotateInput = z.strictObject({ overlapHours: z.number().int().min(0).max(MAX_OVERLAP_HOURS) });
 
 export type ConsoleKeyState = KeyState | "expiring";

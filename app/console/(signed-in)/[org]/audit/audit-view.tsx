@@ -28,10 +28,8 @@ const ACTIONS: Record<string, string> = {
 const PAGE_SIZES = [10, 25, 50, 100] as const;
 
 function Actor({ a }: { a: AuditEntry["actor"] }) {
-  if (a.kind === "cli") return <span>operator CLI</span>;
-  if (a.kind === "system") return <span className="text-ink-2">system</span>;
-  if (a.email) return <Email address={a.email} />;
-  return <span>{a.userId !== undefined ? `user #${a.userId}` : "a user"}</span>;
+  if (a.kind !== "user") return a.kind === "cli" ? <span>operator CLI</span> : <span className="text-ink-2">system</span>;
+  return a.email ? <Email address={a.email} /> : <span>user #{a.userId}</span>;
 }
 
 const asRecord = (v: unknown): Record<string, unknown> => (typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : {});

@@ -8,6 +8,7 @@ import { z } from "zod";
 import { Dialog, DialogActions } from "@/components/console/dialog";
 import { ProblemView } from "@/components/console/problem-view";
 import { buttonPrimary, buttonSecondary, errorText, hintBase, inputBase, labelBase } from "@/components/console/ui";
+import { allScopes, type Scope } from "@/lib/api/scopes";
 import { consoleApi } from "@/lib/console-client/api";
 import { formatDateTime } from "@/lib/console-client/format";
 import { isProblem, toProblem } from "@/lib/console-client/problem";
@@ -18,7 +19,7 @@ import { RevealKey } from "./reveal-key";
 const form = z
   .object({
     name: z.string().trim().min(1, "Give the key a name, e.g. the job that uses it.").max(80, "At most 80 characters."),
-    scopes: z.array(z.string()).min(1, "Give the key at least one scope."),
+    scopes: z.array(z.enum(allScopes as [Scope, ...Scope[]])).min(1, "Give the key at least one scope."),
     mode: z.enum(["test", "live"]),
     expiry: z.enum(["never", "at"]),
     expiresAt: z.string(),
