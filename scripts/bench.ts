@@ -8,17 +8,18 @@ import { closeDb, getDb } from "@/db";
 import { insertOrg } from "@/db/queries/orgs";
 import { createKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
-import { runCodecBench } from "@/bench/codecs";
+import { runCodecBench, runCrcBench } from "@/bench/codecs";
 
 /**
  * HTTP benchmark on a production build over loopback: POST /api/v1/distance (auth, rate limit,
  * validation, metering write, math) beside GET /api/health (a bare handler returning a constant),
  * both measured in this run, and their ratio. PARITAS_BENCH_SECONDS sets the duration (default 10).
- * First the block codecs in process (bench/codecs.ts); PARITAS_BENCH_ONLY=codecs stops after them.
+ * First the block codecs and the CRC engines in process (bench/codecs.ts); PARITAS_BENCH_ONLY=codecs stops after them.
  */
 const seconds = Number(process.env.PARITAS_BENCH_SECONDS ?? 10);
 
 runCodecBench();
+runCrcBench();
 if (process.env.PARITAS_BENCH_ONLY === "codecs") process.exit(0);
 
 async function freePort(): Promise<number> {
