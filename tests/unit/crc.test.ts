@@ -126,17 +126,6 @@ describe("CRC on random data", () => {
     expect(crcCompute(crcPreset("CRC-16/IBM-3740"), new Uint8Array(0))).toBe(0xffffn);
     expect(crc32(new Uint8Array(0))).toBe(0);
   });
-
-  it("1 MiB through CRC-32 and CRC-64 stays table-fast (loose bound)", () => {
-    const data = Uint8Array.from({ length: 1 << 20 }, (_, i) => (i * 31) & 0xff);
-    const t0 = performance.now();
-    expect(crcCompute(crcPreset("CRC-32/ISO-HDLC"), data)).toBe(BigInt(crc32(data)));
-    const t1 = performance.now();
-    crcCompute(crcPreset("CRC-64/XZ"), data);
-    const t2 = performance.now();
-    expect(t1 - t0).toBeLessThan(1000);
-    expect(t2 - t1).toBeLessThan(5000);
-  });
 });
 
 describe("CRC as a bit-aligned block code", () => {

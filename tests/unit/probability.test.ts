@@ -243,11 +243,9 @@ describe("binomial edge cases", () => {
     expect(() => logBinomialSf(10, 1, -0.1)).toThrow(InputError);
   });
 
-  it("the largest n = 10^6 at p = ½ near the mode is accurate and fast", () => {
+  it("the largest n = 10^6 at p = ½ near the mode is accurate", () => {
     const b = ref.binomial.find((r) => r.n === 1_000_000 && r.k === 500_000 && r.p === 0.5)!;
-    const start = performance.now();
     const { lower, upper } = logBinomialTails(1_000_000, 500_000, 0.5);
-    expect(performance.now() - start).toBeLessThan(500);
     // Decimal reference, relative 5e-13 of the log.
     expectLogClose(lower, b.decimal.logcdf, 5e-13, 0, "logcdf 10^6");
     expectLogClose(upper, b.decimal.logsf, 5e-13, 0, "logsf 10^6");

@@ -102,7 +102,7 @@ interface Engine {
  * table indexed by the register's low byte), and otherwise left-aligned in at least 8 bits (the
  * table indexed by its high byte). A bit stream goes through the same register one bit at a time,
  * whole 8-bit groups through the table, in the register's bit order; the result is the same register.
- * Widths up to 32 use 32-bit integer arithmetic, wider ones BigInt.
+ * Widths up to 32 use 32-bit integer arithmetic; wider ones two 32-bit halves for bytes, BigInt for the rest.
  *
  * Each of the four registers has its own byte loop and its own two entry points: one shared loop
  * (or one shared caller of the four loops) makes V8's call sites polymorphic, and the benchmark
@@ -176,37 +176,72 @@ function numberEngine(p: CrcParams): Engine {
   };
 }
 
+/** A 64-bit table as its high and low 32-bit halves, so the byte loop runs in integer arithmetic. */
+function splitTable(table: BigUint64Array): { hi: Uint32Array; lo: Uint32Array } {
+  const hi = new Uint32Array(256);
+  const lo = new Uint32Array(256);
+  for (let i = 0; i < 256; i++) {
+    hi[i] = Number(table[i]! >> 32n);
+    lo[i] = Number(table[i]! & 0xffffffffn);
+  }
+  return { hi, lo };
+}
+
+const join = (hi: number, lo: number) => (BigInt(hi >>> 0) << 32n) | BigInt(lo >>> 0);
+
+/**
+ * Widths 33 to 64: the table is built and single bits are shifted in BigInt, but whole bytes go
+ * through the table as two 32-bit halves (BigInt shifts and lookups cost several times more).
+ * Not reflected, the register is left-aligned in 64 bits, so its top byte is always hi >>> 24.
+ */
 function bigEngine(p: CrcParams): Engine {
-  const wb = BigInt(p.width);
   const table = new BigUint64Array(256);
-  const result = (reg: bigint) => finish(p, reg);
   if (p.refin) {
     const rpoly = reflect(p.poly, p.width);
     const step = (c: bigint) => (c & 1n ? (c >> 1n) ^ rpoly : c >> 1n);
     fillTable(table, (i) => BigInt(i), step);
+    const t = splitTable(table);
     const init = reflect(p.init, p.width);
     const feedBytes = (reg: bigint, data: Uint8Array) => {
-      for (let i = 0; i < data.length; i++) reg = (reg >> 8n) ^ table[Number(reg & 0xffn) ^ data[i]!]!;
-      return reg;
+      let hi = Number(reg >> 32n);
+      let lo = Number(reg & 0xffffffffn);
+      for (let i = 0; i < data.length; i++) {
+        const k = (lo ^ data[i]!) & 0xff;
+        lo = (((lo >>> 8) | (hi << 24)) ^ t.lo[k]!) >>> 0;
+        hi = ((hi >>> 8) ^ t.hi[k]!) >>> 0;
+      }
+      return join(hi, lo);
     };
     const feedBit = (reg: bigint, bit: number) => step(reg ^ BigInt(bit));
+    const result = (reg: bigint) => finish(p, reg);
     return {
       crcOfBytes: (data) => result(feedBytes(init, data)),
       crcOfBits: (data) => result(bitsThrough(data, true, init, feedBytes, feedBit)),
     };
   }
-  const mask = (1n << wb) - 1n;
-  const top = 1n << (wb - 1n);
-  const step = (c: bigint) => (c & top ? ((c << 1n) & mask) ^ p.poly : (c << 1n) & mask);
-  fillTable(table, (i) => BigInt(i) << (wb - 8n), step);
+  const shift = BigInt(64 - p.width);
+  const mask = (1n << 64n) - 1n;
+  const top = 1n << 63n;
+  const poly = p.poly << shift;
+  const step = (c: bigint) => (c & top ? ((c << 1n) & mask) ^ poly : (c << 1n) & mask);
+  fillTable(table, (i) => BigInt(i) << 56n, step);
+  const t = splitTable(table);
+  const init = p.init << shift;
   const feedBytes = (reg: bigint, data: Uint8Array) => {
-    for (let i = 0; i < data.length; i++) reg = ((reg << 8n) & mask) ^ table[Number(reg >> (wb - 8n)) ^ data[i]!]!;
-    return reg;
+    let hi = Number(reg >> 32n);
+    let lo = Number(reg & 0xffffffffn);
+    for (let i = 0; i < data.length; i++) {
+      const k = ((hi >>> 24) ^ data[i]!) & 0xff;
+      hi = (((hi << 8) | (lo >>> 24)) ^ t.hi[k]!) >>> 0;
+      lo = ((lo << 8) ^ t.lo[k]!) >>> 0;
+    }
+    return join(hi, lo);
   };
   const feedBit = (reg: bigint, bit: number) => step(bit ? reg ^ top : reg);
+  const result = (reg: bigint) => finish(p, reg >> shift);
   return {
-    crcOfBytes: (data) => result(feedBytes(p.init, data)),
-    crcOfBits: (data) => result(bitsThrough(data, false, p.init, feedBytes, feedBit)),
+    crcOfBytes: (data) => result(feedBytes(init, data)),
+    crcOfBits: (data) => result(bitsThrough(data, false, init, feedBytes, feedBit)),
   };
 }
 
