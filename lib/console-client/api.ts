@@ -10,6 +10,7 @@ import type {
   Member,
   MembersPayload,
   NewKeyInput,
+  RemovedMember,
   Role,
   RotatedKey,
   TryKey,
@@ -37,7 +38,8 @@ export const consoleApi = {
   revokeInvitation: (org: string, id: number) => consoleFetch<unknown>(`${orgPath(org)}/invitations/${id}`, { method: "DELETE" }),
   changeRole: (org: string, userId: number, role: Role) =>
     consoleFetch<{ member: Member }>(`${orgPath(org)}/members/${userId}`, { method: "PATCH", body: { role } }),
-  removeMember: (org: string, userId: number) => consoleFetch<{ member: Member }>(`${orgPath(org)}/members/${userId}`, { method: "DELETE" }),
+  removeMember: (org: string, userId: number, opts: { revokeKeys?: boolean } = {}) =>
+    consoleFetch<RemovedMember>(`${orgPath(org)}/members/${userId}${opts.revokeKeys ? "?revokeKeys=true" : ""}`, { method: "DELETE" }),
   transfer: (org: string, userId: number) => consoleFetch<unknown>(`${orgPath(org)}/transfer`, { method: "POST", body: { userId } }),
   acceptInvitation: (token: string) => consoleFetch<AcceptedInvitation>("/api/console/invitations/accept", { method: "POST", body: { token } }),
 

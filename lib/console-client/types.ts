@@ -11,7 +11,7 @@ import type { describeMe } from "@/lib/console/account";
 import type { listAuditEntries } from "@/lib/console/audit";
 import type { acceptInvitation, InvitationView } from "@/lib/console/invitations";
 import type { createOrgKey, createTryKey, rotateOrgKey } from "@/lib/console/keys";
-import type { listMembersOf } from "@/lib/console/members";
+import type { listMembersOf, removeMember } from "@/lib/console/members";
 import type { summarise } from "@/lib/console/usage";
 
 export type { Role, KeyMode } from "@/db/schema";
@@ -28,6 +28,7 @@ export type OrgSummary = Me["orgs"][number];
 
 export type MembersPayload = Awaited<ReturnType<typeof listMembersOf>>;
 export type Invitation = MembersPayload["invitations"][number];
+export type RemovedMember = Awaited<ReturnType<typeof removeMember>>;
 
 /** What the create-key form sends (the route checks it with newKeyInput). */
 export type { NewKeyInput } from "@/lib/console/keys";

@@ -8,6 +8,7 @@ import { ApiError } from "@/lib/api/errors";
 import { createKey, keyState, revokeKey, storeNewKey, type KeyState } from "@/lib/api/key-service";
 import { allScopes, type Scope } from "@/lib/api/scopes";
 import { HOUR_MS, actorOf, type Caller } from "./common";
+import type { Mail } from "@/lib/mail/send";
 import { deliver, keyNotices, type KeyEvent } from "./notices";
 
 export const MAX_OVERLAP_HOURS = 720;
@@ -151,6 +152,22 @@ export async function revokeOrgKey(db: Db, org: Org, caller: Caller, id: number)
   });
   deliver(keyNotices(out.owners, org, caller.email, { kind: "revoked", ...eventOf(out.k) }));
   return { record: out.record };
+}
+
+/**
+ * Inside the caller's transaction: revoke every key `userId` created in the org that still works
+ * (active or in a rotation overlap), audited one by one. Returns them with the owners' notices,
+ * which the caller delivers after the commit.
+ */
+export async function revokeKeysCreatedBy(tx: Db, org: Org, caller: Caller, userId: number): Promise<{ keys: { id: number; prefix: string; name: string }[]; mails: Mail[] }> {
+  const now = new Date();
+  const working = (await listKeysWithCreator(tx, org.id, userId)).filter((k) => keyState(k, now) === "active");
+  for (const k of working) await revokeKey(tx, org.id, k.id, actorOf(caller));
+  const owners = working.length ? await listOwnerEmails(tx, org.id) : [];
+  return {
+    keys: working.map((k) => ({ id: k.id, prefix: k.prefix, name: k.name })),
+    mails: working.flatMap((k) => keyNotices(owners, org, caller.email, { kind: "revoked", ...eventOf(k) })),
+  };
 }
 
 /** A short-lived test key for the console's try page; it is in the audit log, but owners get no mail for it. */

@@ -6,9 +6,13 @@ import { countOwners, deleteMember, findMember, listMembers, setMemberRole, type
 import type { Org, Role } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { actorOf, invalidField, type Caller } from "./common";
+import { revokeKeysCreatedBy } from "./keys";
+import { deliver } from "./notices";
 
 export const roleSchema = z.enum(["owner", "developer", "billing"]);
 export const roleChangeInput = z.strictObject({ role: roleSchema });
+/** DELETE …/members/:userId?revokeKeys=true also revokes the keys the member created. */
+export const removeQuery = z.strictObject({ revokeKeys: z.stringbool().default(false) });
 export const transferInput = z.strictObject({ userId: z.number().int().positive() });
 
 export interface MemberView {
@@ -61,17 +65,30 @@ export async function changeRole(db: Db, org: Org, caller: Caller, userId: numbe
   });
 }
 
-/** An owner removes anyone; any member removes themselves (leaves). */
-export async function removeMember(db: Db, org: Org, caller: Caller, userId: number): Promise<MemberView> {
+/**
+ * An owner removes anyone; any member removes themselves (leaves). Their keys keep working unless
+ * `revokeKeys` is set, which revokes, in the same transaction, every working key they created.
+ */
+export async function removeMember(db: Db, org: Org, caller: Caller, userId: number, opts: { revokeKeys?: boolean } = {}) {
   const leaving = userId === caller.id;
   if (!leaving && caller.role !== "owner") throw new ApiError("role-refused", "Only an owner can remove another member; any member can leave.");
-  return inTransaction(db, async (tx) => {
+  const out = await inTransaction(db, async (tx) => {
     const target = await requireMember(tx, org, userId);
     if (target.role === "owner") await keepAnOwner(tx, org, leaving ? "Leaving as the last owner" : "Removing the last owner");
     await deleteMember(tx, org.id, userId);
-    await insertAudit(tx, { orgId: org.id, actor: actorOf(caller), action: "member.removed", targetType: "user", targetId: userId, details: { email: target.email, role: target.role, left: leaving } });
-    return memberView(target);
+    await insertAudit(tx, {
+      orgId: org.id,
+      actor: actorOf(caller),
+      action: "member.removed",
+      targetType: "user",
+      targetId: userId,
+      details: { email: target.email, role: target.role, left: leaving, keysRevoked: Boolean(opts.revokeKeys) },
+    });
+    const revoked = opts.revokeKeys ? await revokeKeysCreatedBy(tx, org, caller, userId) : { keys: [], mails: [] };
+    return { member: memberView(target), revoked };
   });
+  deliver(out.revoked.mails);
+  return { member: out.member, revokedKeys: out.revoked.keys };
 }
 
 /** The target member becomes an owner and the calling owner a developer. */

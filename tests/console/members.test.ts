@@ -4,8 +4,10 @@ import { listAudit } from "@/db/queries/audit";
 import { insertOrg } from "@/db/queries/orgs";
 import { findMembership } from "@/db/queries/users";
 import type { Org } from "@/db/schema";
-import { expectFieldError, expectProblem } from "../helpers/api";
-import { addMember, consoleCall, makeConsoleOrg, type ConsoleFixture, type Person } from "../helpers/console";
+import { createKey } from "@/lib/api/key-service";
+import { sendMail } from "@/lib/mail/send";
+import { expectFieldError, expectProblem, postJson } from "../helpers/api";
+import { addMember, consoleCall, makeConsoleOrg, sentMails, type ConsoleFixture, type Person } from "../helpers/console";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
 
@@ -72,6 +74,66 @@ describe("members list and role changes", () => {
     expect(await roleOf(fx.org, fx.billing)).toBeUndefined();
     const row = (await listAudit(fx.db, fx.org.id)).find((a) => a.action === "member.removed")!;
     expect(JSON.parse(row.details)).toMatchObject({ left: true });
+  });
+});
+
+describe("removing a member and their keys", () => {
+  let fx: ConsoleFixture;
+  beforeEach(async () => {
+    vi.mocked(sendMail).mockClear();
+    fx = await makeConsoleOrg();
+  });
+  const capacityWith = async (key: string) => (await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${key}`)).status;
+  const removeWithKeys = (by: Person, userId: number, flag: string) => consoleCall("DELETE", `${member(fx.org, userId)}?revokeKeys=${flag}`, { cookie: by.cookie });
+
+  it("by default the removed member's keys keep working (the owner chose to keep them)", async () => {
+    expect((await remove(fx.org, fx.owner, fx.spare.id)).body.revokedKeys).toEqual([]);
+    expect(await capacityWith(fx.keys.spare.key)).toBe(200);
+  });
+
+  it("revokeKeys=true revokes, in the same request, every working key they created: audited, owners mailed, 401 from then on", async () => {
+    // A second key of the spare's, in a rotation overlap: still working, so it goes too; an expired one is left alone.
+    const rotated = await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/keys/${fx.keys.spare.record.id}/rotate`, { cookie: fx.owner.cookie, body: { overlapHours: 24 } });
+    expect(rotated.status, rotated.text).toBe(201);
+    const expired = await createKey(fx.db, { orgId: fx.org.id, name: "old", mode: "test", scopes: ["compute"], createdByUserId: fx.spare.id, expiresAt: new Date(Date.now() - 1000).toISOString() }, "cli");
+    vi.mocked(sendMail).mockClear();
+
+    const res = await removeWithKeys(fx.owner, fx.spare.id, "true");
+    expect(res.status, res.text).toBe(200);
+    const revokedIds = res.body.revokedKeys.map((k: { id: number }) => k.id).sort((a: number, b: number) => a - b);
+    expect(revokedIds).toEqual([fx.keys.spare.record.id, rotated.body.record.id].sort((a, b) => a - b));
+    expect(await capacityWith(fx.keys.spare.key)).toBe(401);
+    expect(await capacityWith(rotated.body.key)).toBe(401);
+    // Another member's key is untouched.
+    expect(await capacityWith(fx.keys.developer.key)).toBe(200);
+
+    const audit = await listAudit(fx.db, fx.org.id);
+    expect(audit.filter((a) => a.action === "key.revoked").map((a) => Number(a.target_id)).sort((a, b) => a - b)).toEqual(revokedIds);
+    expect(audit.some((a) => a.action === "key.revoked" && a.target_id === String(expired.record.id))).toBe(false);
+    expect(JSON.parse(audit.find((a) => a.action === "member.removed")!.details)).toMatchObject({ keysRevoked: true });
+    // One notice per revoked key to each owner (two owners in the fixture).
+    const notices = sentMails().filter((m) => m.subject.includes("revoked"));
+    expect(notices.map((m) => m.to).sort()).toEqual([fx.coOwner.email, fx.coOwner.email, fx.owner.email, fx.owner.email].sort());
+  });
+
+  it("a member leaving may revoke their own keys the same way", async () => {
+    expect((await removeWithKeys(fx.developer, fx.developer.id, "true")).status).toBe(200);
+    expect(await capacityWith(fx.keys.developer.key)).toBe(401);
+  });
+
+  it("422 for a revokeKeys that is not a boolean, and nothing changes", async () => {
+    expectFieldError(await removeWithKeys(fx.owner, fx.spare.id, "perhaps"), "/revokeKeys");
+    expect(await roleOf(fx.org, fx.spare)).toBe("developer");
+    expect(await capacityWith(fx.keys.spare.key)).toBe(200);
+  });
+
+  it("the last owner's refusal rolls back the key revocations too", async () => {
+    const db = await getDb();
+    const org = await insertOrg(db, { slug: `solo-${Date.now()}`, name: "Solo" });
+    const solo = await addMember(db, org, "solo", "owner");
+    const k = await createKey(db, { orgId: org.id, name: "solo key", mode: "test", scopes: ["compute"], createdByUserId: solo.id }, "cli");
+    expectProblem(await consoleCall("DELETE", `${member(org, solo.id)}?revokeKeys=true`, { cookie: solo.cookie }), 409, "last-owner");
+    expect(await capacityWith(k.key)).toBe(200);
   });
 });
 

@@ -321,6 +321,17 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       );
       expect(wraps.filter((w) => !/"[@.]"$/.test(w))).toEqual([]);
       await screenshot(page, "audit");
+
+      // Removing the new member: the dialog offers to revoke their keys, ticked by default.
+      await sectionLink(s, "People").click();
+      const members = page.getByRole("table", { name: `Members of ${DEMO_ORG.name}` });
+      await members.getByRole("button", { name: `Remove ${invitee}` }).click();
+      const dialog = page.getByRole("dialog", { name: /^Remove .*\?$/ });
+      expect(await dialog.getByLabel(/Also revoke every key they created/).isChecked()).toBe(true);
+      await screenshot(page, "member-remove");
+      await dialog.getByRole("button", { name: "Remove from the organisation" }).click();
+      await dialog.waitFor({ state: "hidden" });
+      await members.getByRole("row").filter({ hasText: invitee }).waitFor({ state: "detached" });
     });
   });
 

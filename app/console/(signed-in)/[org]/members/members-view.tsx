@@ -2,7 +2,7 @@
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useId, useState } from "react";
 import { RoleBadge } from "@/components/console/badges";
 import { ConfirmDialog } from "@/components/console/confirm-dialog";
 import { Email } from "@/components/console/email";
@@ -25,6 +25,36 @@ type Pending =
   | { kind: "revoke-invite"; invitation: Invitation };
 
 const who = (m: { name?: string | null; email: string }) => m.name ?? m.email;
+
+/** Removing someone: their access ends at once; their keys are revoked too unless the owner unticks the box. */
+function RemoveConfirmation({ org, member, open, onClose, onDone }: { org: string; member: Member; open: boolean; onClose: () => void; onDone: () => void }) {
+  const qc = useQueryClient();
+  const [revokeKeys, setRevokeKeys] = useState(true);
+  const boxId = useId();
+  return (
+    <ConfirmDialog
+      open={open}
+      onClose={onClose}
+      danger
+      title={`Remove ${who(member)}?`}
+      confirmLabel="Remove from the organisation"
+      pendingLabel="Removing…"
+      onConfirm={() => consoleApi.removeMember(org, member.userId, { revokeKeys })}
+      onDone={() => {
+        onDone();
+        if (revokeKeys) void qc.invalidateQueries({ queryKey: queryKeys.keys(org) });
+      }}
+    >
+      <p>{member.email} loses access to this organisation at once.</p>
+      <div className="mt-3 flex items-start gap-2">
+        <input id={boxId} type="checkbox" className="mt-1" checked={revokeKeys} onChange={(e) => setRevokeKeys(e.target.checked)} />
+        <label htmlFor={boxId}>
+          Also revoke every key they created. <span className="text-ink-2">Untick to keep them working, for example for a CI job they set up; you can revoke them later on the Keys page.</span>
+        </label>
+      </div>
+    </ConfirmDialog>
+  );
+}
 
 function Confirmations({ org, pending, open, onClose }: { org: string; pending: Pending | null; open: boolean; onClose: () => void }) {
   const qc = useQueryClient();
@@ -57,22 +87,7 @@ function Confirmations({ org, pending, open, onClose }: { org: string; pending: 
         </ConfirmDialog>
       );
     case "remove":
-      return (
-        <ConfirmDialog
-          {...common}
-          key={`remove-${p.member.userId}`}
-          danger
-          title={`Remove ${who(p.member)}?`}
-          confirmLabel="Remove from the organisation"
-          pendingLabel="Removing…"
-          onConfirm={() => consoleApi.removeMember(org, p.member.userId)}
-          onDone={refresh}
-        >
-          <p>
-            {p.member.email} loses access to this organisation at once. Keys they created are not revoked by this; review them on the Keys page.
-          </p>
-        </ConfirmDialog>
-      );
+      return <RemoveConfirmation key={`remove-${p.member.userId}`} {...common} org={org} member={p.member} onDone={refresh} />;
     case "leave":
       return (
         <ConfirmDialog

@@ -1,5 +1,5 @@
-import { ANY_ROLE, consoleRoute, idParam, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
-import { changeRole, removeMember, roleChangeInput } from "@/lib/console/members";
+import { ANY_ROLE, consoleRoute, idParam, json, readJson, readQuery, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { changeRole, removeMember, removeQuery, roleChangeInput } from "@/lib/console/members";
 
 export const PATCH = consoleRoute(
   sameOrigin(
@@ -14,5 +14,12 @@ export const PATCH = consoleRoute(
 
 // Every role gets this far: anyone may leave; removing someone else is the service's owner-only case.
 export const DELETE = consoleRoute(
-  sameOrigin(withSession(withOrgRole(ANY_ROLE, async (_req, ctx) => json({ member: await removeMember(ctx.db, ctx.org, ctx.caller, idParam(ctx, "userId")) })))),
+  sameOrigin(
+    withSession(
+      withOrgRole(ANY_ROLE, async (req, ctx) => {
+        const { revokeKeys } = readQuery(req, removeQuery);
+        return json(await removeMember(ctx.db, ctx.org, ctx.caller, idParam(ctx, "userId"), { revokeKeys }));
+      }),
+    ),
+  ),
 );
