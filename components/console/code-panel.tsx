@@ -12,8 +12,10 @@ export function CodePanel({ label, text, children, maxHeight }: { label: string;
         </span>
         <CopyButton text={text} label={`Copy ${label}`} tone="dark" />
       </figcaption>
+      {/* Scrollable, so it takes focus (keyboard scrolling); a focusable block needs a role that may carry its name. */}
       <pre
         tabIndex={0}
+        role="region"
         aria-label={label}
         className="overflow-auto px-4 py-3 font-mono text-[0.8125rem] leading-relaxed"
         style={maxHeight ? { maxHeight } : undefined}

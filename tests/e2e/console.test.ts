@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
 import { waitForMessage } from "@/fakes/mailbox";
-import { linkIn, PHONE, screenshot, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { capture, linkIn, PHONE, screenshot, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
 
 const [OWNER, DEVELOPER, BILLING] = DEMO_USERS as unknown as [(typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number]];
 const ORG = DEMO_ORG.slug;
@@ -68,7 +68,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await sectionLink(s, "Keys").waitFor();
       await expect.poll(() => page.getByText(DEVELOPER.email).first().isVisible()).toBe(true);
       await settle(page);
-      await screenshot(page, "summary");
+      await capture(page, "summary");
 
       expect(await s.cookieHeader()).toContain("next-auth.session-token=");
 
@@ -81,7 +81,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await page.goto(`${e2e.baseUrl}/console/dev/mailbox`);
       await page.getByText("Your Paritas sign-in link").first().waitFor();
       await settle(page);
-      await screenshot(page, "dev-mailbox");
+      await capture(page, "dev-mailbox");
     });
   });
 
@@ -94,7 +94,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await page.waitForURL(`${e2e.baseUrl}/console/${ORG}/keys`);
       await page.getByRole("heading", { name: "API keys", level: 1 }).waitFor();
       await settle(page);
-      await screenshot(page, "keys");
+      await capture(page, "keys");
 
       // Create: the dialog shows the key once; copy it with the page's own button.
       await page.getByRole("button", { name: "Create a key" }).first().click();
@@ -109,7 +109,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await shown.getByRole("button", { name: "Copy key" }).click();
       await shown.getByRole("button", { name: "Copied" }).waitFor();
       expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(key);
-      await screenshot(page, "key-created");
+      await capture(page, "key-created");
       await shown.getByLabel("I have stored the key somewhere safe.").check();
       await shown.getByRole("button", { name: "Done — hide the key" }).click();
       await shown.waitFor({ state: "hidden" });
@@ -127,9 +127,9 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(await cellNumber(s, "Usage by endpoint", "capacity", 2)).toBeGreaterThanOrEqual(1);
       expect(await cellNumber(s, "Usage by key", "e2e capacity probe", 2)).toBe(1);
       await settle(page);
-      await screenshot(page, "usage");
+      await capture(page, "usage");
       await page.getByRole("heading", { name: "By endpoint" }).scrollIntoViewIfNeeded();
-      await screenshot(page, "usage-tables");
+      await capture(page, "usage-tables");
 
       // Rotate with a one-hour overlap: old and new keys both work inside the window.
       await sectionLink(s, "Keys").click();
@@ -137,7 +137,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await page.getByRole("button", { name: `Rotate e2e capacity probe (${prefix})` }).first().click();
       const rotate = page.getByRole("dialog", { name: "Rotate e2e capacity probe" });
       await rotate.getByLabel(/^1 hour/).check();
-      await screenshot(page, "key-rotate");
+      await capture(page, "key-rotate");
       await rotate.getByRole("button", { name: "Rotate key" }).click();
       const replacement = page.getByRole("dialog", { name: "The replacement key" });
       const newKey = await replacement.getByLabel("The new key").inputValue();
@@ -155,7 +155,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       const newPrefix = newKey.slice(0, 13);
       await page.getByText(`replaces ${prefix}…`).first().waitFor();
       await settle(page);
-      await screenshot(page, "keys-rotated");
+      await capture(page, "keys-rotated");
 
       // Revoke the new key: it answers 401 from then on; the old one keeps its overlap.
       await page.getByRole("button", { name: `Revoke e2e capacity probe (${newPrefix})` }).first().click();
@@ -207,7 +207,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await page.getByText("Keys are not available to the billing role").waitFor();
       expect(await page.getByRole("button", { name: "Create a key" }).count()).toBe(0);
       await settle(page);
-      await screenshot(page, "keys-billing-refused");
+      await capture(page, "keys-billing-refused");
 
       const cookie = await s.cookieHeader();
       const res = await fetch(`${e2e.baseUrl}/api/console/orgs/${ORG}/keys`, { headers: { cookie } });
@@ -231,10 +231,10 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await form.getByLabel(/^channel/).selectOption("bsc");
       await form.getByLabel(/^p\s*number/).fill("0.11");
       await settle(page);
-      await screenshot(page, "try");
+      await capture(page, "try");
       await form.getByRole("button", { name: "Run with a test key" }).click();
 
-      const result = page.getByRole("region", { name: "Response" });
+      const result = page.getByRole("region", { name: "Response", exact: true });
       await result.getByText(/^200\b/).first().waitFor();
       await expect.poll(() => page.getByLabel("response", { exact: true }).innerText()).toContain('"bits per channel use"');
       const curl = await page.getByLabel("curl", { exact: true }).innerText();
@@ -245,7 +245,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(ts).toContain('paritas.POST("/capacity"');
       expect(ts).toContain("createParitasClient");
       await result.scrollIntoViewIfNeeded();
-      await screenshot(page, "try-result");
+      await capture(page, "try-result");
     });
   });
 
@@ -265,7 +265,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await invite.getByText(`Invitation sent to ${invitee}`).waitFor();
       await page.getByRole("table", { name: "Pending invitations" }).getByRole("row").filter({ hasText: invitee }).waitFor();
       await settle(page);
-      await screenshot(page, "members");
+      await capture(page, "members");
       const mail = await waitForMessage(e2e.mailboxDir, invitee, { since, timeoutMs: 10_000 });
       expect(mail.subject).toBe(`Join ${DEMO_ORG.name} on Paritas`);
       inviteLink = linkIn(mail.text, `${e2e.baseUrl}/console/invite/`);
@@ -281,7 +281,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await page.getByRole("button", { name: "Accept the invitation" }).waitFor();
       await expect.poll(() => page.getByText(invitee).first().isVisible()).toBe(true);
       await settle(page);
-      await screenshot(page, "invite");
+      await capture(page, "invite");
       await page.getByRole("button", { name: "Accept the invitation" }).click();
       await page.getByText(`You are now a member of ${DEMO_ORG.name}`).waitFor();
       await page.getByRole("link", { name: `Open ${DEMO_ORG.name}` }).click();
@@ -320,7 +320,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
         }),
       );
       expect(wraps.filter((w) => !/"[@.]"$/.test(w))).toEqual([]);
-      await screenshot(page, "audit");
+      await capture(page, "audit");
 
       // Removing the new member: the dialog offers to revoke their keys, ticked by default.
       await sectionLink(s, "People").click();
@@ -328,7 +328,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await members.getByRole("button", { name: `Remove ${invitee}` }).click();
       const dialog = page.getByRole("dialog", { name: /^Remove .*\?$/ });
       expect(await dialog.getByLabel(/Also revoke every key they created/).isChecked()).toBe(true);
-      await screenshot(page, "member-remove");
+      await capture(page, "member-remove");
       await dialog.getByRole("button", { name: "Remove from the organisation" }).click();
       await dialog.waitFor({ state: "hidden" });
       await members.getByRole("row").filter({ hasText: invitee }).waitFor({ state: "detached" });
@@ -347,7 +347,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
         await settle(page);
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
         expect(overflow).toBeLessThanOrEqual(0);
-        await screenshot(page, "keys-390");
+        await capture(page, "keys-390");
       },
       { viewport: PHONE },
     );

@@ -18,6 +18,7 @@ import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
+import AxeBuilder from "@axe-core/playwright";
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from "playwright-core";
 import { migrate, openDb } from "@/db";
 import { seedDemo } from "@/db/seed/demo";
@@ -319,6 +320,29 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   return path;
 }
 
+/** The WCAG 2.1 A and AA rules axe-core checks automatically (it cannot judge everything: keyboard order and wording still need eyes). */
+const AXE_TAGS = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"];
+
+/**
+ * What axe-core finds wrong with the page as it is now, one line per rule and element: its
+ * violations, and the checks it could not decide except colour contrast over a background image
+ * or a chart (the squared-paper grid, recharts' SVG), which it never can.
+ */
+export async function accessibilityProblems(page: Page): Promise<string[]> {
+  const result = await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze();
+  const undecided = result.incomplete.filter((r) => r.id !== "color-contrast");
+  return [...result.violations, ...undecided].flatMap((v) =>
+    v.nodes.map((n) => `${v.id} (${v.impact}): ${v.help} — ${n.target.join(" ")}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, " ")}` : ""}`),
+  );
+}
+
+/** Screenshot the page under `name` and check it with axe-core; fails on any WCAG 2.1 A/AA problem it finds. */
+export async function capture(page: Page, name: string): Promise<void> {
+  await screenshot(page, name);
+  const problems = await accessibilityProblems(page);
+  if (problems.length) throw new Error(`accessibility problems on ${name} (${page.url()}):\n  ${problems.join("\n  ")}`);
+}
+
 /** The first http(s) URL in a mail's text that starts with `prefix`. */
 export function linkIn(text: string, prefix: string): string {
   const url = text.match(/https?:\/\/[^\s<>"]+/g)?.find((u) => u.startsWith(prefix));
@@ -363,12 +387,12 @@ export async function signInWithLink(
   const send = page.getByRole("button", { name: "E-mail me a link" });
   await hydrated(send);
   await page.getByLabel("E-mail for the link").fill(email);
-  if (opts.screenshotAs) await screenshot(page, opts.screenshotAs);
+  if (opts.screenshotAs) await capture(page, opts.screenshotAs);
   await send.click();
   await page.waitForURL(/\/signin\/check-mail/);
   await page.getByRole("heading", { name: "Check your inbox" }).waitFor();
   const checkMailScrollY = await page.evaluate(() => window.scrollY);
-  if (opts.checkMailScreenshotAs) await screenshot(page, opts.checkMailScreenshotAs);
+  if (opts.checkMailScreenshotAs) await capture(page, opts.checkMailScreenshotAs);
   const message = await waitForMessage(e2e.mailboxDir, email, { since, timeoutMs: 10_000 });
   const link = linkIn(message.text, `${e2e.baseUrl}/api/auth/callback/email`);
   await page.goto(link);
@@ -392,5 +416,5 @@ export async function signInWithPassword(e2e: E2E, page: Page, email: string, pa
 export async function settle(page: Page): Promise<void> {
   // Not "networkidle": the router's prefetches of neighbouring sections may keep a request open.
   await page.waitForLoadState("load");
-  await page.waitForFunction(() => document.querySelectorAll('[aria-label="loading"], [role="status"][aria-live="polite"] .animate-pulse').length === 0);
+  await page.waitForFunction(() => document.querySelectorAll('[data-loading], [role="status"][aria-live="polite"] .animate-pulse').length === 0);
 }

@@ -26,8 +26,9 @@ function Stat({ label, children, foot }: { label: string; children: ReactNode; f
 }
 
 const Pending = () => (
-  <span className="text-ink-2" aria-label="loading">
-    …
+  <span className="text-ink-2" data-loading="">
+    <span aria-hidden="true">…</span>
+    <span className="sr-only">loading</span>
   </span>
 );
 
