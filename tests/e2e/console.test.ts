@@ -335,6 +335,27 @@ describe("console in a browser", { timeout: 90_000 }, () => {
     });
   });
 
+  test("the public pages and the other sign-in pages pass the same checks, and the 404 page answers 404", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      for (const [path, heading, name] of [
+        ["/", /Channel-coding math/, "landing"],
+        ["/problems", "Problem types", "problems"],
+        ["/problems/validation-failed", /./, "problem-type"],
+        ["/signup", "Create an account", "signup"],
+        ["/reset", "Reset your password", "reset"],
+      ] as const) {
+        const res = await page.goto(`${e2e.baseUrl}${path}`);
+        expect(res?.status(), path).toBe(200);
+        await page.getByRole("heading", { level: 1, name: heading }).first().waitFor();
+        await capture(page, name);
+      }
+      const missing = await page.goto(`${e2e.baseUrl}/no-such-page`);
+      expect(missing?.status()).toBe(404);
+      await capture(page, "not-found");
+    });
+  });
+
   test("the keys page fits a phone screen", async () => {
     await inSession(
       async (s) => {
