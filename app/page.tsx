@@ -1,43 +1,7 @@
 import Link from "next/link";
 import { Caution } from "@/components/caution";
 import { CodeBlock } from "@/components/code-block";
-
-const outcomes = [
-  {
-    title: "Codecs proven bit-exact",
-    body: "Upload the vectors your device produced. The reference decodes every one and reports each position where firmware and reference disagree, so a regression fails the build that caused it.",
-    endpoint: "POST /conformance",
-  },
-  {
-    title: "BER targets shown, with a confidence",
-    body: "State the claim — say, BER below 1e-5 for a (7,4) Hamming decoder on a BSC with p = 1e-3 — and get back supported, refuted or inconclusive, with the interval and the confidence level behind it.",
-    endpoint: "POST /claims/verify",
-  },
-  {
-    title: "Margin to capacity",
-    body: "Capacity of BSC, BEC and AWGN channels, the Shannon limit on Eb/N0 for your code rate, and how many dB your design leaves on the table.",
-    endpoint: "POST /capacity",
-  },
-  {
-    title: "Test length, planned up front",
-    body: "How many bits — and how long at your line rate — it takes to show a BER target at a chosen confidence, with zero or more errors allowed.",
-    endpoint: "POST /tests/plan",
-  },
-] as const;
-
-const endpoints = [
-  ["POST", "/codes/analyze", "Parameters, minimum distance, weight distribution and the classic bounds of a code"],
-  ["POST", "/encode", "Message bits to codeword, for every supported code family"],
-  ["POST", "/decode", "Hard bits or soft LLRs to message, with corrected positions and syndrome"],
-  ["POST", "/distance", "Hamming distance of two words; minimum distance of a codebook"],
-  ["POST", "/channels/bsc", "Flip probabilities, block error and undetected error on a BSC"],
-  ["POST", "/capacity", "Channel capacity, Shannon limit on Eb/N0, gap to capacity"],
-  ["POST", "/links/ber", "Uncoded BER at an Eb/N0, required Eb/N0 for a BER, coding gain"],
-  ["POST", "/tests/plan", "Bits and test time needed to demonstrate a BER"],
-  ["POST", "/claims/verify", "Verdict on an error-rate claim, with interval and confidence"],
-  ["POST", "/simulations", "Seeded Monte Carlo BER/FER sweeps, run asynchronously"],
-  ["POST", "/conformance", "Device test vectors checked against the reference"],
-] as const;
+import { isLive, LANDING_ENDPOINTS, LANDING_OUTCOMES, PLANNED_FAMILIES, SHIPPED_FAMILIES } from "./landing";
 
 export default function Home() {
   return (
@@ -57,10 +21,10 @@ export default function Home() {
             </h1>
             <p className="mt-6 max-w-2xl text-lg text-ink-2">
               Paritas is a hosted API for the arithmetic of error-correcting codes. Firmware, DSP and
-              link engineers call it from CI to test an error-rate claim and get a verdict with a
-              stated confidence, to hold their encoders and decoders against a bit-exact reference,
-              and to compute error probabilities, bounds, channel capacity and the distance to the
-              Shannon limit — without keeping a private pile of scripts in sync.
+              link engineers call it from CI to hold their encoders and decoders against a bit-exact
+              reference and to compute error probabilities, bounds, channel capacity and the distance
+              to the Shannon limit — without keeping a private pile of scripts in sync. Verdicts on
+              error-rate claims, test planning and simulations are on the way.
             </p>
             <div className="mt-8 flex flex-col gap-3 sm:flex-row sm:items-center">
               <a
@@ -92,15 +56,16 @@ export default function Home() {
           gives the same numbers on every machine.
         </p>
         <ul className="mt-8 grid gap-4 sm:grid-cols-2">
-          {outcomes.map((o) => (
+          {LANDING_OUTCOMES.map((o) => (
             <li key={o.title} className="flex flex-col rounded-lg border border-rule bg-surface p-5">
               <h3 className="flex items-baseline gap-2 text-lg font-semibold">
                 <span aria-hidden="true" className="inline-block h-2.5 w-2.5 shrink-0 rounded-sm bg-brass" />
                 {o.title}
               </h3>
               <p className="mt-2 flex-1 text-ink-2">{o.body}</p>
-              <p className="mt-4">
+              <p className="mt-4 flex items-center gap-2">
                 <code className="pa-code text-xs">{o.endpoint}</code>
+                {isLive(o.endpoint) ? null : <Planned />}
               </p>
             </li>
           ))}
@@ -168,10 +133,16 @@ export default function Home() {
               </tr>
             </thead>
             <tbody className="block sm:table-row-group">
-              {endpoints.map(([method, path, does]) => (
+              {LANDING_ENDPOINTS.map(([method, path, does]) => (
                 <tr key={path} className="block border-rule align-top not-first:border-t sm:table-row sm:border-t">
                   <td className="block px-4 pt-3 font-mono text-[0.8125rem] whitespace-nowrap sm:table-cell sm:py-2.5">
                     <span className="text-ink-2">{method}</span> {path}
+                    {isLive(`${method} ${path}`) ? null : (
+                      <>
+                        {" "}
+                        <Planned />
+                      </>
+                    )}
                   </td>
                   <td className="block px-4 pt-0.5 pb-3 text-ink-2 sm:table-cell sm:py-2.5">{does}</td>
                 </tr>
@@ -180,9 +151,7 @@ export default function Home() {
           </table>
         </div>
         <p className="mt-3 text-sm text-ink-2">
-          Code families: repetition, single parity check, Hamming and extended Hamming, Golay,
-          any binary linear code from its matrices, CRC with the full parameter model, binary BCH,
-          Reed–Solomon, convolutional with Viterbi, LDPC and polar.
+          Code families: {SHIPPED_FAMILIES.join(", ")}. Planned: {PLANNED_FAMILIES.join(", ")}.
         </p>
       </section>
 
@@ -274,4 +243,9 @@ function SyndromeFigure() {
       </figcaption>
     </figure>
   );
+}
+
+/** A marker for what the landing page describes but the API does not serve yet. */
+function Planned() {
+  return <span className="rounded-full border border-dashed border-rule px-2 py-px font-sans text-xs font-medium text-ink-2">planned</span>;
 }

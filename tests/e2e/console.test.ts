@@ -350,6 +350,15 @@ describe("console in a browser", { timeout: 90_000 }, () => {
         await page.getByRole("heading", { level: 1, name: heading }).first().waitFor();
         await capture(page, name);
       }
+      // The landing page's endpoint list against the server: a row marked planned is not served (404), every other row is (401 without a key).
+      await page.goto(`${e2e.baseUrl}/`);
+      const rows = await page.getByRole("table", { name: "Paritas API endpoints under /api/v1" }).locator("tbody tr td:first-child").allInnerTexts();
+      expect(rows.length).toBeGreaterThan(5);
+      for (const row of rows) {
+        const [method, path] = row.trim().split(/\s+/);
+        const res = await fetch(`${e2e.baseUrl}/api/v1${path}`, { method, headers: { "content-type": "application/json" }, body: method === "GET" ? undefined : "{}" });
+        expect(res.status, row).toBe(row.includes("planned") ? 404 : 401);
+      }
       const missing = await page.goto(`${e2e.baseUrl}/no-such-page`);
       expect(missing?.status()).toBe(404);
       await capture(page, "not-found");

@@ -18,7 +18,7 @@ import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
-import AxeBuilder from "@axe-core/playwright";
+import axe from "axe-core";
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from "playwright-core";
 import { migrate, openDb } from "@/db";
 import { seedDemo } from "@/db/seed/demo";
@@ -329,7 +329,9 @@ const AXE_TAGS = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"];
  * or a chart (the squared-paper grid, recharts' SVG), which it never can.
  */
 export async function accessibilityProblems(page: Page): Promise<string[]> {
-  const result = await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze();
+  // axe-core's own engine, injected into the page (its Playwright wrapper asks for Node 22).
+  if (!(await page.evaluate(() => "axe" in window))) await page.addScriptTag({ content: axe.source });
+  const result = await page.evaluate((tags) => (window as unknown as { axe: typeof axe }).axe.run(document, { runOnly: { type: "tag", values: tags } }), AXE_TAGS);
   const undecided = result.incomplete.filter((r) => r.id !== "color-contrast");
   return [...result.violations, ...undecided].flatMap((v) =>
     v.nodes.map((n) => `${v.id} (${v.impact}): ${v.help} — ${n.target.join(" ")}${n.failureSummary ? ` — ${n.failureSummary.replace(/\s+/g, " ")}` : ""}`),
