@@ -4,7 +4,9 @@
  * is one flow in its own browser context. Screenshots land in tests/e2e/screenshots/.
  */
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { readFile } from "node:fs/promises";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
+import { CSV_HEADER } from "@/lib/console/usage";
 import { waitForMessage } from "@/fakes/mailbox";
 import { capture, linkIn, PHONE, screenshot, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
 
@@ -128,6 +130,14 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(await cellNumber(s, "Usage by key", "e2e capacity probe", 2)).toBe(1);
       await settle(page);
       await capture(page, "usage");
+
+      // The CSV export is the same period's cells: the documented header, and the new key's one call on today's row.
+      const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Export CSV" }).click()]);
+      const csv = await readFile((await download.path())!, "utf8");
+      const [header, ...lines] = csv.trim().split(/\r?\n/);
+      expect(header).toBe(CSV_HEADER);
+      const today = new Date().toISOString().slice(0, 10);
+      expect(lines.filter((l) => l.startsWith(`${today},capacity,${key.slice(0, 13)},`))).toEqual([`${today},capacity,${key.slice(0, 13)},1,1,0`]);
       await page.getByRole("heading", { name: "By endpoint" }).scrollIntoViewIfNeeded();
       await capture(page, "usage-tables");
 
