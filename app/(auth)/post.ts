@@ -1,3 +1,4 @@
+import type { useRouter } from "next/navigation";
 import { consoleFetch } from "@/lib/console-client/fetcher";
 import { toProblem } from "@/lib/console-client/problem";
 
@@ -28,6 +29,15 @@ export function safeReturnPath(value: string | undefined): string {
   } catch {
     return "/console";
   }
+}
+
+/**
+ * Go to the check-mail page at its top. The router would only scroll the new page's own segment
+ * into view, which leaves the site header above the fold.
+ */
+export function showCheckMail(router: ReturnType<typeof useRouter>, query: URLSearchParams): void {
+  window.scrollTo(0, 0);
+  router.push(`/signin/check-mail?${query}`, { scroll: false });
 }
 
 export const looksLikeEmail = (s: string) => /^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(s);

@@ -1,4 +1,5 @@
 import type { Db } from "@/db";
+import type { NewApiKey } from "@/db/schema";
 import { insertApiKey } from "@/db/queries/api-keys";
 import { insertAuthUser } from "@/db/queries/auth";
 import { insertAudit } from "@/db/queries/audit";
@@ -41,6 +42,12 @@ function rng(seed: number) {
   };
 }
 
+/** A key row with a fresh secret nobody is shown, for the keys the seed backdates or puts straight into a state. */
+async function insertSeedKey(tx: Db, row: Omit<NewApiKey, "prefix" | "key_hash">) {
+  const { prefix, hash } = generateKey(row.mode);
+  return insertApiKey(tx, { ...row, prefix, key_hash: hash });
+}
+
 /** Seed the demo org once; later runs leave it as it is, except to give the demo people passwords they lack. Returns the org id. */
 export async function seedDemo(db: Db, now = new Date()): Promise<number> {
   const existing = await findOrgBySlug(db, DEMO_ORG.slug);
@@ -68,13 +75,10 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
     const bench = await createKey(tx, { orgId: org.id, name: "bench rig", mode: "test", scopes: ["compute"], createdByUserId: dev }, `user:${dev}`);
     // Keys in the other states: one revoked after a leak drill, one that expired.
     for (const [name, state] of [["modem v1 (retired)", "revoked"], ["summer intern trial", "expired"]] as const) {
-      const { prefix, hash } = generateKey("test");
-      const k = await insertApiKey(tx, {
+      const k = await insertSeedKey(tx, {
         org_id: org.id,
         name,
         mode: "test",
-        prefix,
-        key_hash: hash,
         scopes: allScopes.join(" "),
         created_by_user_id: users[0]!.id,
         created_at: new Date(now.getTime() - 60 * DAY).toISOString(),
@@ -87,32 +91,26 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
         action: state === "revoked" ? "key.revoked" : "key.created",
         targetType: "api_key",
         targetId: k.id,
-        details: { prefix, name, mode: "test" },
+        details: { prefix: k.prefix, name, mode: "test" },
       });
     }
     // A live key in a rotation overlap: the shore station's relay key was replaced two days ago
     // and the old one keeps working for five more days while the station picks up the new one.
     const owner = users[0]!.id;
-    const relayOld = generateKey("live");
-    const oldRelay = await insertApiKey(tx, {
+    const oldRelay = await insertSeedKey(tx, {
       org_id: org.id,
       name: "shore station relay",
       mode: "live",
-      prefix: relayOld.prefix,
-      key_hash: relayOld.hash,
       scopes: "compute",
       created_by_user_id: owner,
       created_at: new Date(now.getTime() - 90 * DAY).toISOString(),
       last_used_at: new Date(now.getTime() - 3 * 3600_000).toISOString(),
       expires_at: new Date(now.getTime() + 5 * DAY).toISOString(),
     });
-    const relayNew = generateKey("live");
-    const newRelay = await insertApiKey(tx, {
+    const newRelay = await insertSeedKey(tx, {
       org_id: org.id,
       name: "shore station relay",
       mode: "live",
-      prefix: relayNew.prefix,
-      key_hash: relayNew.hash,
       scopes: "compute",
       created_by_user_id: owner,
       created_at: new Date(now.getTime() - 2 * DAY).toISOString(),
@@ -125,9 +123,9 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       targetType: "api_key",
       targetId: oldRelay.id,
       details: {
-        prefix: relayOld.prefix,
+        prefix: oldRelay.prefix,
         newKeyId: newRelay.id,
-        newPrefix: relayNew.prefix,
+        newPrefix: newRelay.prefix,
         overlapHours: 7 * 24,
         oldKeyEndsAt: oldRelay.expires_at,
       },

@@ -9,7 +9,7 @@ import type { Role } from "@/db/schema";
 import { allScopes, scopeCatalogue } from "@/lib/api/scopes";
 import type { describeMe } from "@/lib/console/account";
 import type { listAuditEntries } from "@/lib/console/audit";
-import type { acceptInvitation, InvitationView } from "@/lib/console/invitations";
+import type { acceptInvitation } from "@/lib/console/invitations";
 import type { createOrgKey, createTryKey, rotateOrgKey } from "@/lib/console/keys";
 import type { listMembersOf, removeMember } from "@/lib/console/members";
 import type { summarise } from "@/lib/console/usage";
@@ -19,7 +19,6 @@ export type { ConsoleKeyState as KeyState, KeyRecord } from "@/lib/console/keys"
 export type { MemberView as Member } from "@/lib/console/members";
 export type { AuditActor } from "@/lib/console/audit";
 export type { EndpointInfo, EndpointExample } from "@/lib/console/account";
-export type { InvitationView };
 
 export const ROLES: readonly Role[] = ["owner", "developer", "billing"];
 
@@ -46,4 +45,4 @@ export type AuditEntry = AuditPage["entries"][number];
 export type AcceptedInvitation = Awaited<ReturnType<typeof acceptInvitation>>;
 
 /** Scopes a console user can give a key, with what each allows (from lib/api/scopes.ts, which is plain data). */
-export const PUBLIC_SCOPES = allScopes.map((id) => ({ id, label: id, help: scopeCatalogue[id] }));
+export const PUBLIC_SCOPES = allScopes.map((id) => ({ id, help: scopeCatalogue[id] }));

@@ -5,7 +5,7 @@ import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useRef, useState, type FormEvent } from "react";
 import { AuthForm, Field, Notice, PasswordField, Submit } from "../fields";
-import { looksLikeEmail, safeReturnPath } from "../post";
+import { looksLikeEmail, safeReturnPath, showCheckMail } from "../post";
 import { Sheet } from "../intro";
 
 /** next-auth's error codes, in our words; which form each belongs to decides where it is shown. */
@@ -75,9 +75,7 @@ export function SignInForms({ error, callbackUrl, notice }: { error?: string; ca
     setBusy("link");
     const res = await signIn<"email">("email", { email: address, redirect: false, callbackUrl: safeReturnPath(callbackUrl) });
     if (res?.ok && !res.error) {
-      // The router would only scroll the new page's own segment into view, leaving the site header above the fold.
-      window.scrollTo(0, 0);
-      router.push(`/signin/check-mail?to=${encodeURIComponent(address)}`, { scroll: false });
+      showCheckMail(router, new URLSearchParams({ to: address }));
       return;
     }
     setBusy(null);

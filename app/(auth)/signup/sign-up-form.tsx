@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useRef, useState, type FormEvent } from "react";
 import { AuthForm, Field, PasswordField, Submit } from "../fields";
 import { Sheet } from "../intro";
-import { looksLikeEmail, postJson } from "../post";
+import { looksLikeEmail, postJson, showCheckMail } from "../post";
 
 type Fields = { name?: string; email?: string; password?: string };
 
@@ -52,9 +52,7 @@ export function SignUpForm() {
       setBusy(false);
       return setFailure("The account is set up, but the confirmation link could not be sent. Ask for one on the sign-in page.");
     }
-    // The router would only scroll the new page's own segment into view, leaving the site header above the fold.
-    window.scrollTo(0, 0);
-    router.push(`/signin/check-mail?from=signup&to=${encodeURIComponent(input.email)}`, { scroll: false });
+    showCheckMail(router, new URLSearchParams({ from: "signup", to: input.email }));
   }
 
   return (

@@ -112,7 +112,7 @@ export function CreateKeyDialog({ org, open, onClose }: { org: string; open: boo
                 <label key={s.id} className="flex items-start gap-2 text-sm">
                   <input type="checkbox" value={s.id} className="mt-1 h-4 w-4 accent-accent" {...register("scopes")} />
                   <span>
-                    <code className="font-mono font-medium">{s.label}</code>
+                    <code className="font-mono font-medium">{s.id}</code>
                     <span className="block text-ink-2">{s.help}</span>
                   </span>
                 </label>
