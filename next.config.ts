@@ -1,8 +1,8 @@
 import type { NextConfig } from "next";
 
 const nextConfig: NextConfig = {
-  // better-sqlite3 is a native addon: load it from node_modules at run time.
-  serverExternalPackages: ["better-sqlite3"],
+  // better-sqlite3 is a native addon, and piscina starts workers from its own files: both load from node_modules at run time.
+  serverExternalPackages: ["better-sqlite3", "piscina"],
   poweredByHeader: false,
 };
 

@@ -8,6 +8,7 @@ export default defineConfig({
     include: ["tests/**/*.test.ts"],
     exclude: ["tests/e2e/**", "**/node_modules/**"],
     setupFiles: ["tests/setup.ts"],
+    globalSetup: ["tests/global-setup.ts"],
     pool: "forks",
     testTimeout: 20000,
   },

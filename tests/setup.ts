@@ -6,6 +6,7 @@ import fc from "fast-check";
 import { afterAll } from "vitest";
 import { closeDb } from "@/db";
 import { resetRateLimits } from "@/lib/api/rate-limit";
+import { closePools } from "@/lib/jobs/pool";
 
 // Property tests draw the same cases on every run and machine (a failure names its seed and path).
 fc.configureGlobal({ seed: 20261201 });
@@ -17,6 +18,7 @@ await closeDb();
 resetRateLimits();
 
 afterAll(async () => {
+  await closePools();
   await closeDb();
   for (const suffix of ["", "-wal", "-shm"]) rmSync(file + suffix, { force: true });
 });

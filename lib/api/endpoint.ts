@@ -1,14 +1,9 @@
-import { randomBytes } from "node:crypto";
-import { z } from "zod";
-import { getDb, type Db } from "@/db";
+import type { z } from "zod";
+import type { Db } from "@/db";
 import { InputError } from "@/lib/core/errors";
-import { authenticate, requireScope, type KeyPrincipal } from "./auth";
-import { parseJsonBody, readBodyText } from "./body";
-import { ApiError, fieldErrorsFromZod, problemResponse, toPointer } from "./errors";
-import { beginIdempotent, finishIdempotent } from "./idempotency";
-import { meter } from "./metering";
-import { consumeRate } from "./rate-limit";
+import type { KeyPrincipal } from "./auth";
 import type { Scope } from "./scopes";
+import { describeWork, unitsFor } from "./work";
 
 export type Method = "GET" | "POST" | "DELETE";
 
@@ -18,7 +13,7 @@ export interface HandlerContext {
   requestId: string;
 }
 
-export interface EndpointSpec<I extends z.ZodType, O extends z.ZodType> {
+interface CommonSpec<I extends z.ZodType, O extends z.ZodType> {
   /** Operation id: names the endpoint in the OpenAPI document and in usage rows. */
   id: string;
   method: Method;
@@ -33,22 +28,33 @@ export interface EndpointSpec<I extends z.ZodType, O extends z.ZodType> {
   output: O;
   /** Request examples: each one runs as documented (tests/api/examples.test.ts). */
   examples: Record<string, { summary: string; value: z.input<I> }>;
-  /** Compute units charged for a successful call: fixed, or from the work the result shows was done. */
-  cost: number | ((input: z.output<I>, output: z.output<O>) => number);
+}
+
+/**
+ * Math: a pure handler (no database, no request context) that may run on the worker pool, and an estimate
+ * of the work a request causes, made before any of it is done. The estimate decides whether the request is
+ * refused, runs on the event loop or goes to the pool, and what it costs (lib/api/work.ts).
+ */
+export interface ComputeSpec<I extends z.ZodType, O extends z.ZodType> extends CommonSpec<I, O> {
+  /** Estimated elementary operations; throws a work-limit ApiError (see `refuse`) when one part is beyond its limit. */
+  work: (input: z.output<I>) => number;
+  /** The work rule in words, published in the reference beside the cost it implies. */
+  workRule: string;
+  handler: (input: z.output<I>) => z.output<O>;
+}
+
+/** Reads or writes the database for the calling key; cheap, fixed cost, always on the event loop. */
+export interface DataSpec<I extends z.ZodType, O extends z.ZodType> extends CommonSpec<I, O> {
+  cost: number;
   handler: (input: z.output<I>, ctx: HandlerContext) => z.output<O> | Promise<z.output<O>>;
 }
 
-export interface Endpoint<I extends z.ZodType = z.ZodType, O extends z.ZodType = z.ZodType> extends EndpointSpec<I, O> {
-  /** The Next.js route handler. */
-  route: (req: Request) => Promise<Response>;
-}
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- the erased type of a list of endpoints: each one's own types live in its definition.
+type AnyZod = z.ZodType<any, any, any>;
 
-const REQUEST_ID = /^[A-Za-z0-9._:-]{8,128}$/;
-
-export function requestIdFor(req: Request): string {
-  const given = req.headers.get("x-request-id");
-  return given && REQUEST_ID.test(given) ? given : `req_${randomBytes(12).toString("hex")}`;
-}
+export type ComputeEndpoint<I extends z.ZodType = AnyZod, O extends z.ZodType = AnyZod> = ComputeSpec<I, O> & { kind: "compute" };
+export type DataEndpoint<I extends z.ZodType = AnyZod, O extends z.ZodType = AnyZod> = DataSpec<I, O> & { kind: "data" };
+export type Endpoint = ComputeEndpoint | DataEndpoint;
 
 /** Run `fn`; an InputError it throws gets `path` put in front of its own (for the field's JSON pointer). */
 export function at<T>(path: (string | number)[], fn: () => T): T {
@@ -60,115 +66,20 @@ export function at<T>(path: (string | number)[], fn: () => T): T {
   }
 }
 
-function validationFailed(errors: { pointer: string; message: string }[]): ApiError {
-  const first = errors[0];
-  const detail = errors.length === 1 && first ? `${first.pointer || "the body"}: ${first.message}` : `${errors.length} fields are invalid; see errors.`;
-  return new ApiError("validation-failed", detail, { errors });
+/**
+ * Define a math endpoint once: the route (lib/api/http.ts), validation, OpenAPI, metering, the console form
+ * and the worker pool's task table all derive from it. Its work rule is appended to the description.
+ */
+export function defineEndpoint<I extends z.ZodType, O extends z.ZodType>(spec: ComputeSpec<I, O>): ComputeEndpoint<I, O> {
+  return { ...spec, description: `${spec.description}\n\n${describeWork(spec.workRule)}`, kind: "compute" };
 }
 
-function readInput(req: Request, bodyText: string, method: Method): unknown {
-  if (method === "GET") return Object.fromEntries(new URL(req.url).searchParams);
-  return parseJsonBody(req, bodyText);
+/** Define an endpoint that reads the database for the calling key (fixed cost, never pooled). */
+export function defineDataEndpoint<I extends z.ZodType, O extends z.ZodType>(spec: DataSpec<I, O>): DataEndpoint<I, O> {
+  return { ...spec, kind: "data" };
 }
 
-/** Define an endpoint once: everything else (route, validation, OpenAPI, metering, console form) derives from it. */
-export function defineEndpoint<I extends z.ZodType, O extends z.ZodType>(spec: EndpointSpec<I, O>): Endpoint<I, O> {
-  const route = async (req: Request): Promise<Response> => {
-    const requestId = requestIdFor(req);
-    const started = performance.now();
-    const at0 = new Date();
-    let principal: KeyPrincipal | undefined;
-    let headers: Record<string, string> = {};
-    let units = 0;
-    let response: Response;
-    let db: Db | undefined;
-    try {
-      db = await getDb();
-      principal = await authenticate(db, req.headers.get("authorization"), at0);
-      // Every call of a known key counts against its rate, refused ones too: a key without the scope must not be a free loop of metered writes.
-      headers = await consumeRate(principal.keyId);
-      requireScope(principal, spec.scope);
-      response = await run(req, db, principal, requestId, headers, (u) => (units = u));
-    } catch (err) {
-      response = problemResponse(err instanceof InputError ? inputProblem(err) : err, requestId);
-      for (const [k, v] of Object.entries(headers)) if (!response.headers.has(k)) response.headers.set(k, v);
-    }
-    if (db && principal) {
-      try {
-        await meter(db, { principal, endpoint: spec.id, method: spec.method, status: response.status, units, durationMs: performance.now() - started, requestId, at: at0 });
-      } catch (e) {
-        console.error(`[${requestId}] metering failed`, e);
-      }
-    }
-    return response;
-  };
-
-  async function run(req: Request, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
-    const bodyText = spec.method === "GET" ? "" : await readBodyText(req);
-    const raw = readInput(req, bodyText, spec.method);
-    const idemKey = spec.method === "POST" ? req.headers.get("idempotency-key") : null;
-    if (idemKey !== null) {
-      const outcome = await beginIdempotent(db, { orgId: principal.orgId, key: idemKey, endpoint: spec.id, bodyText });
-      if (outcome.kind === "replay") {
-        const { status, headers, body } = outcome.response;
-        // A replay is not charged (metered with 0 units), so its X-Compute-Units says 0, not the first call's charge.
-        const charged: Record<string, string> = "x-compute-units" in headers ? { "x-compute-units": "0" } : {};
-        return new Response(body, { status, headers: { ...headers, ...charged, ...rateHeaders, "x-request-id": requestId, "idempotency-replayed": "true" } });
-      }
-      let res: Response;
-      try {
-        res = await compute(raw, db, principal, requestId, rateHeaders, charge);
-      } catch (err) {
-        res = problemResponse(err instanceof InputError ? inputProblem(err) : err, requestId);
-      }
-      const body = await res.clone().text();
-      const keep = Object.fromEntries([...res.headers].filter(([k]) => k === "content-type" || k === "x-compute-units"));
-      await finishIdempotent(db, principal.orgId, idemKey, { status: res.status, headers: keep, body });
-      for (const [k, v] of Object.entries(rateHeaders)) res.headers.set(k, v);
-      return res;
-    }
-    return compute(raw, db, principal, requestId, rateHeaders, charge);
-  }
-
-  async function compute(raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
-    const parsed = spec.input.safeParse(raw);
-    if (!parsed.success) throw validationFailed(fieldErrorsFromZod(parsed.error));
-    const input = parsed.data;
-    const result = await spec.handler(input, { db, principal, requestId });
-    const units = typeof spec.cost === "number" ? spec.cost : spec.cost(input, result);
-    if (process.env.NODE_ENV !== "production") {
-      const check = spec.output.safeParse(result);
-      if (!check.success) throw new Error(`response of ${spec.id} does not match its schema: ${check.error.message}`);
-    }
-    charge(units);
-    return new Response(JSON.stringify(result), {
-      status: 200,
-      headers: { "content-type": "application/json", "x-request-id": requestId, "x-compute-units": String(units), ...rateHeaders },
-    });
-  }
-
-  return { ...spec, route };
+/** Compute units a successful call with this (parsed) input is charged: from the work estimate, or a data endpoint's fixed cost. */
+export function unitsOf(e: Endpoint, input: unknown): number {
+  return e.kind === "compute" ? unitsFor(e.work(input)) : e.cost;
 }
-
-const inputProblem = (e: InputError) => validationFailed([{ pointer: toPointer(e.path), message: e.message }]);
-
-type RouteHandler = (req: Request) => Promise<Response>;
-
-/** The route module's exports for one path: its endpoints' handlers, and a 405 problem for every other method. */
-export function routes(...endpoints: Endpoint[]): Record<"GET" | "POST" | "PUT" | "PATCH" | "DELETE", RouteHandler> {
-  const allow = endpoints.map((e) => e.method).join(", ");
-  const notAllowed: RouteHandler = async (req) =>
-    problemResponse(new ApiError("method-not-allowed", `${req.method} is not allowed here; allowed: ${allow}.`, { headers: { allow } }), requestIdFor(req));
-  const byMethod = Object.fromEntries(endpoints.map((e) => [e.method, e.route]));
-  return {
-    GET: byMethod.GET ?? notAllowed,
-    POST: byMethod.POST ?? notAllowed,
-    PUT: notAllowed,
-    PATCH: notAllowed,
-    DELETE: byMethod.DELETE ?? notAllowed,
-  };
-}
-
-/** 404 problem for any path under /api/v1 that no endpoint has. */
-export const unknownRoute: RouteHandler = async (req) =>
-  problemResponse(new ApiError("not-found", `There is no endpoint ${new URL(req.url).pathname}. The API reference is at /docs.`), requestIdFor(req));

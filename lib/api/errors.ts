@@ -21,8 +21,12 @@ export const problemTypes = {
   "payload-too-large": { status: 413, title: "The request body is too large", help: "Bodies are limited in size; split the work into several requests." },
   "unsupported-media-type": { status: 415, title: "The body must be JSON", help: "Send `Content-Type: application/json`." },
   "validation-failed": { status: 422, title: "The request has invalid fields", help: "`errors` lists each invalid field as a JSON pointer with a message." },
+  "work-limit": { status: 422, title: "The request asks for more work than one call may do", help: "`limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part)." },
+  "deadline-exceeded": { status: 422, title: "The computation ran past its deadline", help: "The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code." },
+  "memory-limit": { status: 422, title: "The computation ran out of its memory allowance", help: "The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call." },
   "idempotency-key-reused": { status: 422, title: "Idempotency-Key reused with another body", help: "An Idempotency-Key belongs to one request body. Use a new key for a new request." },
   "rate-limited": { status: 429, title: "Too many requests", help: "Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window." },
+  "server-busy": { status: 503, title: "The compute pool is full", help: "Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`." },
   "internal": { status: 500, title: "Something went wrong on our side", help: "The failure was logged with the request id. Retrying may help; if it does not, report the request id." },
 } as const;
 
@@ -34,12 +38,20 @@ export interface FieldError {
   message: string;
 }
 
+/** A limit a request ran into: the quantity, how much the request needed (when known) and how much one call may have. */
+export interface LimitInfo {
+  quantity: string;
+  requested?: number;
+  allowed: number;
+  unit: string;
+}
+
 /** The one error type of the API layer: raised anywhere, rendered once by `problemResponse`. */
 export class ApiError extends Error {
   constructor(
     readonly code: ProblemCode,
     readonly detail: string,
-    readonly extra: { errors?: FieldError[]; headers?: Record<string, string> } = {},
+    readonly extra: { errors?: FieldError[]; headers?: Record<string, string>; limit?: LimitInfo } = {},
   ) {
     super(detail);
     this.name = "ApiError";
@@ -73,6 +85,10 @@ export const problemSchema = z
     detail: z.string(),
     instance: z.string().meta({ description: "The request id of the failed request." }),
     errors: z.array(z.object({ pointer: z.string(), message: z.string() })).optional(),
+    limit: z
+      .object({ quantity: z.string(), requested: z.number().optional(), allowed: z.number(), unit: z.string() })
+      .optional()
+      .meta({ description: "Work, deadline and memory limits: the quantity, what the request needed (when known) and what one call allows." }),
   })
   .meta({ id: "Problem", description: "RFC 9457 problem details." });
 
@@ -89,6 +105,7 @@ export function problemResponse(err: unknown, requestId: string): Response {
     detail: e.detail,
     instance: requestId,
     ...(e.extra.errors ? { errors: e.extra.errors } : {}),
+    ...(e.extra.limit ? { limit: e.extra.limit } : {}),
   };
   return new Response(JSON.stringify(body), {
     status: e.status,

@@ -5,7 +5,7 @@ import { findOrgBySlug } from "@/db/queries/orgs";
 import { findMembership } from "@/db/queries/users";
 import type { Org, Role } from "@/db/schema";
 import { parseJsonBody, readBodyText } from "@/lib/api/body";
-import { requestIdFor } from "@/lib/api/endpoint";
+import { requestIdFor } from "@/lib/api/http";
 import { ApiError, fieldErrorsFromZod, problemResponse, type FieldError } from "@/lib/api/errors";
 import type { Caller } from "@/lib/console/common";
 import { readSession } from "./session";

@@ -130,23 +130,19 @@ export function minimumDistanceFromWeights(weights: readonly bigint[]): number |
   return d < 0 ? undefined : d;
 }
 
-function binomials(n: number): bigint[] {
-  const row = [1n];
-  for (let i = 1; i <= n; i++) row.push((row[i - 1]! * BigInt(n - i + 1)) / BigInt(i));
-  return row;
-}
-
 /** Gilbert–Varshamov guarantee: the largest d ≤ n with Σ_{i=0}^{d−2} C(n−1, i) < 2^{n−k}, so an [n, k, d] linear code exists (Varshamov 1957; MacWilliams & Sloane 1977, ch. 1). */
 export function gilbertVarshamovDistance(n: number, k: number): number {
   if (!Number.isInteger(n) || n < 1) throw new InputError(`n must be an integer ≥ 1; got ${n}`, ["n"]);
   if (!Number.isInteger(k) || k < 1 || k > n) throw new InputError(`k must be an integer from 1 to n = ${n}; got ${k}`, ["k"]);
   const limit = 1n << BigInt(n - k);
-  const c = binomials(n - 1);
-  // S(1) = 0 and S(d + 1) = S(d) + C(n − 1, d − 1); S grows with d.
+  // S(1) = 0 and S(d + 1) = S(d) + C(n − 1, d − 1); S grows with d. C(n − 1, i) follows from C(n − 1, i − 1),
+  // so only the terms the sum reaches are computed.
   let sum = 0n;
+  let c = 1n;
   let d = 1;
-  while (d < n && sum + c[d - 1]! < limit) {
-    sum += c[d - 1]!;
+  while (d < n && sum + c < limit) {
+    sum += c;
+    c = (c * BigInt(n - d)) / BigInt(d);
     d++;
   }
   return d;
@@ -231,13 +227,14 @@ export function undetectedErrorProbability(weights: readonly bigint[], p: number
   return { value: Math.exp(ln), log10: ln / Math.LN10 };
 }
 
-export interface CodeAnalysis {
+/** What analysis reports about an [n, k] binary linear code from its weight distribution. */
+export interface CodeParameters {
   n: number;
   k: number;
   rate: number;
   /** A_0..A_n. */
   weightDistribution: bigint[];
-  weightDistributionMethod: "enumeration" | "dual";
+  weightDistributionMethod: "enumeration" | "dual" | "closed-form";
   minimumDistance: number;
   /** t = ⌊(d − 1)/2⌋. */
   correctingRadius: number;
@@ -248,10 +245,58 @@ export interface CodeAnalysis {
   bounds: Bounds;
   perfect: boolean;
   mds: boolean;
+}
+
+/** A code's matrices: H in its own column order, and G = [I_k | P], H = [Pᵀ | I_{n−k}] after permuting columns (column j of each is original column permutation[j]). */
+export interface CodeMatrices {
   /** H with H·Gᵀ = 0 in the code's own column order. */
   parityCheck: Bits[];
-  /** G = [I_k | P] and H = [Pᵀ | I_{n−k}] after permuting columns: column j of each is original column permutation[j]. */
   systematic: { generator: Bits[]; parityCheck: Bits[]; permutation: number[]; permuted: boolean };
+}
+
+export type CodeAnalysis = CodeParameters & CodeMatrices;
+
+/**
+ * Minimum distance, t, detection capability, sphere volume, the Hamming / Singleton / Gilbert–Varshamov /
+ * Plotkin / Griesmer bounds and the perfect and MDS flags of an [n, k] binary linear code with the weight
+ * distribution A_0..A_n (MacWilliams & Sloane 1977, ch. 1, 2 and 17).
+ */
+export function codeParameters(k: number, weights: bigint[], method: CodeParameters["weightDistributionMethod"]): CodeParameters {
+  const d = minimumDistanceFromWeights(weights);
+  if (d === undefined) throw new InputError("the code has a single codeword, so it has no minimum distance", ["generator"]);
+  return { ...distanceParameters(weights.length - 1, k, d), weightDistribution: weights, weightDistributionMethod: method };
+}
+
+/** The same parameters from n, k and a known minimum distance d, for codes whose d is known without their weights. */
+export function distanceParameters(n: number, k: number, d: number): Omit<CodeParameters, "weightDistribution" | "weightDistributionMethod"> {
+  const bounds = codeBounds(n, k, d);
+  return {
+    n,
+    k,
+    rate: k / n,
+    minimumDistance: d,
+    correctingRadius: correctingRadius(d),
+    detectionCapability: detectionCapability(d),
+    sphereVolume: sphereVolume(n, correctingRadius(d)),
+    bounds,
+    perfect: bounds.hamming.tight,
+    mds: bounds.singleton.tight,
+  };
+}
+
+/** Systematic G and H of the code with full-rank generator rows, and H in the code's own order (MacWilliams & Sloane 1977, ch. 1). */
+export function codeMatrices(generator: readonly Bits[]): CodeMatrices {
+  const sys = systematicForm(generator, "generator");
+  const parityCheck = nullSpace(generator);
+  return {
+    parityCheck,
+    systematic: {
+      generator: sys.rows,
+      parityCheck: permuteColumns(parityCheck, sys.permutation),
+      permutation: sys.permutation,
+      permuted: sys.permutation.some((c, j) => c !== j),
+    },
+  };
 }
 
 /**
@@ -262,32 +307,5 @@ export interface CodeAnalysis {
  */
 export function analyzeCode(generator: readonly Bits[]): CodeAnalysis {
   const { weights, method } = weightDistribution(generator);
-  const n = generator[0]!.length;
-  const k = generator.length;
-  // k ≥ 1 full-rank rows give a non-zero codeword, so d exists.
-  const d = minimumDistanceFromWeights(weights)!;
-  const bounds = codeBounds(n, k, d);
-  const sys = systematicForm(generator, "generator");
-  const parityCheck = nullSpace(generator);
-  return {
-    n,
-    k,
-    rate: k / n,
-    weightDistribution: weights,
-    weightDistributionMethod: method,
-    minimumDistance: d,
-    correctingRadius: correctingRadius(d),
-    detectionCapability: detectionCapability(d),
-    sphereVolume: sphereVolume(n, correctingRadius(d)),
-    bounds,
-    perfect: bounds.hamming.tight,
-    mds: bounds.singleton.tight,
-    parityCheck,
-    systematic: {
-      generator: sys.rows,
-      parityCheck: permuteColumns(parityCheck, sys.permutation),
-      permutation: sys.permutation,
-      permuted: sys.permutation.some((c, j) => c !== j),
-    },
-  };
+  return { ...codeParameters(generator.length, weights, method), ...codeMatrices(generator) };
 }

@@ -1,5 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { endpoints } from "@/lib/api/registry";
+import { unitsOf } from "@/lib/api/endpoint";
 import { api, getQuery, postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 
@@ -43,7 +44,7 @@ describe("every documented request example runs", () => {
     // The charge is a whole number of units, and the definition's cost gives the same number.
     const units = Number(res.headers["x-compute-units"]);
     expect(Number.isInteger(units) && units >= 0).toBe(true);
-    const expected = typeof e.cost === "number" ? e.cost : e.cost(e.input.parse(ex.value), out.data);
+    const expected = unitsOf(e, e.input.parse(ex.value));
     expect(units).toBe(expected);
   });
 });

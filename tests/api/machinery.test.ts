@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { distance } from "@/lib/api/endpoints/distance";
+import { endpointRoute } from "@/lib/api/http";
 import { endpoints } from "@/lib/api/registry";
 import { resetRateLimits } from "@/lib/api/rate-limit";
 import { api, expectNoStackTrace, expectProblem, getQuery, postJson } from "../helpers/api";
@@ -82,7 +83,7 @@ describe("request bodies", () => {
       body: stream,
       duplex: "half",
     } as RequestInit);
-    const res = await distance.route(req);
+    const res = await endpointRoute(distance)(req);
     expect(res.status).toBe(413);
     expect(res.headers.get("content-type")).toMatch(/^application\/problem\+json/);
     // 4 MiB is 64 chunks; reading stopped soon after.

@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
 import { findApiKeyById } from "@/db/queries/api-keys";
 import { listUsageEvents } from "@/db/queries/usage";
-import type { Endpoint } from "@/lib/api/endpoint";
+import { unitsOf, type Endpoint } from "@/lib/api/endpoint";
+
 import { bsc } from "@/lib/api/endpoints/bsc";
 import { capacity } from "@/lib/api/endpoints/capacity";
 import { distance } from "@/lib/api/endpoints/distance";
@@ -20,9 +21,9 @@ async function totalUsageRows(): Promise<number> {
   return Number(r.n);
 }
 
-/** The definition's cost for this input and output. */
-function costOf(e: Endpoint, input: unknown, output: unknown): number {
-  return typeof e.cost === "number" ? e.cost : e.cost(e.input.parse(input), output);
+/** The definition's charge for this input. */
+function costOf(e: Endpoint, input: unknown): number {
+  return unitsOf(e, e.input.parse(input));
 }
 
 describe("metering: one usage row per authenticated call", () => {
@@ -45,7 +46,7 @@ describe("metering: one usage row per authenticated call", () => {
       const res = e.method === "GET" ? await getQuery(url, input as Record<string, string>, auth) : await postJson(url, input, auth);
       expect(res.status, res.text).toBe(200);
       const units = Number(res.headers["x-compute-units"]);
-      expect(units).toBe(costOf(e, input, res.body));
+      expect(units).toBe(costOf(e, input));
       seen.push({ id: res.headers["x-request-id"]!, units, endpoint: e.id, method: e.method });
     }
     const after = new Date().toISOString();

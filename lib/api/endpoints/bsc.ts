@@ -10,8 +10,8 @@ const input = z
   .strictObject({
     n: z.number().int().min(1).max(MAX_BLOCK_LENGTH).meta({ description: `Block length in bits (1 to ${MAX_BLOCK_LENGTH}).`, example: 7 }),
     p: probability.meta({ description: "Crossover probability of the BSC, 0 ≤ p ≤ 1.", example: 0.001 }),
-    flips: z.number().int().min(0).optional().meta({ description: "i: report P(exactly / at most / more than i flips in n)." }),
-    t: z.number().int().min(0).optional().meta({ description: "Errors corrected per block by a bounded-distance decoder." }),
+    flips: z.number().int().min(0).max(MAX_BLOCK_LENGTH).optional().meta({ description: "i, at most n: report P(exactly / at most / more than i flips in n)." }),
+    t: z.number().int().min(0).max(MAX_BLOCK_LENGTH).optional().meta({ description: "Errors corrected per block by a bounded-distance decoder, at most n." }),
   })
   .superRefine((v, ctx) => {
     if (v.flips !== undefined && v.flips > v.n) ctx.addIssue({ code: "custom", path: ["flips"], message: `flips must be at most n = ${v.n}.` });
@@ -50,7 +50,7 @@ export const bsc = defineEndpoint({
   summary: "Flip counts, block error and post-decoding BER on a binary symmetric channel",
   description:
     "Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. " +
-    "With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate. Cost: 1 unit.",
+    "With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate.",
   input,
   output,
   examples: {
@@ -58,7 +58,9 @@ export const bsc = defineEndpoint({
     flips: { summary: "Chance of more than 3 flips in a 1,000-bit frame", value: { n: 1000, p: 0.0005, flips: 3 } },
     deepTail: { summary: "A tail far below double precision", value: { n: 1000000, p: 1e-9, t: 60 } },
   },
-  cost: 1,
+  // The binomial tails sum at most n terms in log space.
+  work: (req) => 64 + req.n,
+  workRule: "n + 64: the binomial sums run over at most n terms (always on the event loop; 1 unit).",
   handler: (req) => ({
     n: req.n,
     p: req.p,

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { awgnCapacityReal, becCapacity, bpskAwgnCapacity, bpskShannonLimitEbN0, bscCapacity, dbToLinear, linearToDb, shannonHartley, shannonLimitEbN0 } from "@/lib/core/capacity";
 import { defineEndpoint } from "../endpoint";
-import { caution, probability } from "../schemas";
+import { caution, documentRules, exactlyOneOf, probability } from "../schemas";
 
 const db = z.number().min(-100).max(100);
 const rate = z.number().gt(0).max(16).meta({ description: "Code rate R in information bits per real channel use (for a binary code with BPSK, k/n)." });
@@ -16,20 +16,30 @@ const bec = z.strictObject({
   erasure: probability.meta({ description: "Erasure probability ε." }),
   rate: z.number().gt(0).max(1).optional(),
 });
-const awgn = z.strictObject({
-  channel: z.literal("awgn"),
-  snrDb: db.optional().meta({ description: "Signal-to-noise ratio S/N in dB." }),
-  snr: z.number().min(0).max(1e10).optional().meta({ description: "S/N as a linear ratio." }),
-  ebN0Db: db.optional().meta({ description: "Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 per real dimension." }),
-  rate: rate.optional(),
-  bandwidthHz: z.number().gt(0).max(1e15).optional().meta({ description: "Bandwidth B in Hz: adds the Shannon–Hartley capacity B·log2(1 + S/N) in bits/s." }),
-});
-const bpskAwgn = z.strictObject({
-  channel: z.literal("bpsk-awgn"),
-  esN0Db: db.optional().meta({ description: "Es/N0 per BPSK symbol in dB." }),
-  ebN0Db: db.optional().meta({ description: "Eb/N0 in dB; needs `rate` (Es/N0 = R·Eb/N0)." }),
-  rate: z.number().gt(0).lt(1).optional(),
-});
+/** The ways of giving the operating point, exactly one each: checked on the union below, stated on each channel's object. */
+const operatingPoint = { awgn: ["snrDb", "snr", "ebN0Db"], "bpsk-awgn": ["esN0Db", "ebN0Db"] };
+const pointRules = (names: string[]) => ({ ...exactlyOneOf(...names), dependentRequired: { ebN0Db: ["rate"] } });
+
+const awgn = documentRules(
+  z.strictObject({
+    channel: z.literal("awgn"),
+    snrDb: db.optional().meta({ description: "Signal-to-noise ratio S/N in dB." }),
+    snr: z.number().min(0).max(1e10).optional().meta({ description: "S/N as a linear ratio." }),
+    ebN0Db: db.optional().meta({ description: "Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 per real dimension." }),
+    rate: rate.optional(),
+    bandwidthHz: z.number().gt(0).max(1e15).optional().meta({ description: "Bandwidth B in Hz: adds the Shannon–Hartley capacity B·log2(1 + S/N) in bits/s." }),
+  }).meta({ description: "Real AWGN: exactly one of `snrDb`, `snr` and `ebN0Db` (with `rate`)." }),
+  pointRules(operatingPoint.awgn),
+);
+const bpskAwgn = documentRules(
+  z.strictObject({
+    channel: z.literal("bpsk-awgn"),
+    esN0Db: db.optional().meta({ description: "Es/N0 per BPSK symbol in dB." }),
+    ebN0Db: db.optional().meta({ description: "Eb/N0 in dB; needs `rate` (Es/N0 = R·Eb/N0)." }),
+    rate: z.number().gt(0).lt(1).optional(),
+  }).meta({ description: "BPSK input on AWGN: exactly one of `esN0Db` and `ebN0Db` (with `rate`)." }),
+  pointRules(operatingPoint["bpsk-awgn"]),
+);
 
 const exactlyOne = (v: Record<string, unknown>, names: string[], ctx: z.RefinementCtx) => {
   const given = names.filter((n) => v[n] !== undefined);
@@ -40,8 +50,8 @@ const exactlyOne = (v: Record<string, unknown>, names: string[], ctx: z.Refineme
 const input = z
   .discriminatedUnion("channel", [bsc, bec, awgn, bpskAwgn])
   .superRefine((v, ctx) => {
-    if (v.channel === "awgn") exactlyOne(v, ["snrDb", "snr", "ebN0Db"], ctx);
-    if (v.channel === "bpsk-awgn") exactlyOne(v, ["esN0Db", "ebN0Db"], ctx);
+    if (v.channel === "awgn") exactlyOne(v, operatingPoint.awgn, ctx);
+    if (v.channel === "bpsk-awgn") exactlyOne(v, operatingPoint["bpsk-awgn"], ctx);
   })
   .meta({ id: "CapacityRequest" });
 
@@ -86,7 +96,7 @@ export const capacity = defineEndpoint({
   summary: "Channel capacity, the Shannon limit on Eb/N0 for a rate, and the gap to it",
   description:
     "BSC 1 − H2(p); BEC 1 − ε; real AWGN ½·log2(1 + S/N) per real dimension and B·log2(1 + S/N) bits/s with a bandwidth (Shannon–Hartley), limit (2^(2R) − 1)/(2R); " +
-    "BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding. Cost: 1 unit.",
+    "BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding.",
   input,
   output,
   examples: {
@@ -95,7 +105,9 @@ export const capacity = defineEndpoint({
     gap: { summary: "Gap of a rate-1/2 code operating at 2.5 dB, BPSK input", value: { channel: "bpsk-awgn", ebN0Db: 2.5, rate: 0.5 } },
     bec: { summary: "Erasure channel losing 20 % of symbols, rate 3/4", value: { channel: "bec", erasure: 0.2, rate: 0.75 } },
   },
-  cost: 1,
+  // Closed forms are immediate; BPSK input integrates numerically (about 2^23), and its Shannon limit finds a root of that integral.
+  work: (req) => (req.channel !== "bpsk-awgn" ? 256 : 2 ** 23 + (req.rate !== undefined ? 2 ** 24 : 0)),
+  workRule: "256 for BSC, BEC and AWGN (closed forms); 2^23 for BPSK-input AWGN (numerical integration), plus 2^24 when a `rate` asks for its Shannon limit (root finding over the integral).",
   handler: (req): Out => {
     switch (req.channel) {
       case "bsc": {

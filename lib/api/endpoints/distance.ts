@@ -2,38 +2,46 @@ import { z } from "zod";
 import { parseBits } from "@/lib/core/bits";
 import { InputError } from "@/lib/core/errors";
 import { codebookDistance, correctingRadius, detectionCapability, hammingBoundHolds, hammingDistance, hammingWeight, isPerfect, log2BigInt, sphereVolume } from "@/lib/core/distance";
-import { codeSpec } from "../code-spec";
+import { analysisRules, codeSpec } from "../code-spec";
 import { at, defineEndpoint } from "../endpoint";
-import { analysisUnits, analyzeSpec } from "./analyze";
-import { bitsInput, MAX_WORD_BITS } from "../schemas";
+import { analysisWork, analyzeSpec, closedForm } from "./analyze";
+import { weightDistributionMethod } from "@/lib/core/analysis";
+import type { CodeSpec } from "../code-spec";
+import { wordBits } from "../code-work";
+import { bitsInput, bitsOf, documentRules, MAX_WORD_BITS } from "../schemas";
 
 export const MAX_CODEBOOK_WORDS = 4096;
+
+const distanceMethod = (spec: CodeSpec, n: number, k: number): "enumeration" | "dual" | "closed-form" | "mds-formula" => (spec.family === "rs" ? "mds-formula" : closedForm(spec) ? "closed-form" : (weightDistributionMethod(n, k) ?? "enumeration"));
 export const MAX_CODEBOOK_WORD_BITS = 4096;
 /** Words × length of a codebook: bounds the pairwise work to about 2^27 word operations. */
 export const MAX_CODEBOOK_BITS = 1_048_576;
 const MAX_POSITIONS = 10_000;
 const MAX_PAIRS = 1000;
 
-const input = z
-  .strictObject({
-    a: bitsInput.optional().meta({ description: "First word (with `b`)." }),
-    b: bitsInput.optional().meta({ description: "Second word, the same length as `a`." }),
-    codebook: z.array(bitsInput).min(2).max(MAX_CODEBOOK_WORDS).optional().meta({
-      description: `Words of one length (2 to ${MAX_CODEBOOK_WORDS} words, at most ${MAX_CODEBOOK_WORD_BITS} bits each, at most ${MAX_CODEBOOK_BITS} bits in all).`,
-    }),
-    code: codeSpec.optional().meta({ description: "A code spec: the minimum distance of that code (as POST /codes/analyze finds it)." }),
-    crcMessageBits: z.number().int().min(1).max(4096).optional().meta({ description: "With a CRC `code`: the message length." }),
-  })
-  .superRefine((v, ctx) => {
-    const pair = v.a !== undefined || v.b !== undefined;
-    const modes = [pair, v.codebook !== undefined, v.code !== undefined].filter(Boolean).length;
-    if (modes > 1) ctx.addIssue({ code: "custom", path: v.code !== undefined ? ["code"] : ["codebook"], message: "Send one of: `a` and `b`, `codebook`, or `code`." });
-    else if (modes === 0) ctx.addIssue({ code: "custom", path: [], message: "Send `a` and `b` (two words), `codebook` (a list of words) or `code` (a code spec)." });
-    else if (v.code?.family === "crc" && v.crcMessageBits === undefined) ctx.addIssue({ code: "custom", path: ["crcMessageBits"], message: "A CRC code needs `crcMessageBits`." });
-    else if (pair && v.a === undefined) ctx.addIssue({ code: "custom", path: ["a"], message: "`a` is required with `b`." });
-    else if (pair && v.b === undefined) ctx.addIssue({ code: "custom", path: ["b"], message: "`b` is required with `a`." });
-  })
-  .meta({ id: "DistanceRequest" });
+const input = documentRules(
+  z
+    .strictObject({
+      a: bitsInput.optional().meta({ description: "First word (with `b`)." }),
+      b: bitsInput.optional().meta({ description: "Second word, the same length as `a`." }),
+      codebook: z.array(bitsOf(MAX_CODEBOOK_WORD_BITS, "CodebookWord")).min(2).max(MAX_CODEBOOK_WORDS).optional().meta({
+        description: `Words of one length (2 to ${MAX_CODEBOOK_WORDS} words, at most ${MAX_CODEBOOK_WORD_BITS} bits each, at most ${MAX_CODEBOOK_BITS} bits in all).`,
+      }),
+      code: codeSpec.optional().meta({ description: "A code spec: the minimum distance of that code (as POST /codes/analyze finds it; odd parity is refused there)." }),
+      crcMessageBits: z.number().int().min(1).max(4096).optional().meta({ description: "With a CRC `code`: the message length (required there)." }),
+    })
+    .superRefine((v, ctx) => {
+      const pair = v.a !== undefined || v.b !== undefined;
+      const modes = [pair, v.codebook !== undefined, v.code !== undefined].filter(Boolean).length;
+      if (modes > 1) ctx.addIssue({ code: "custom", path: v.code !== undefined ? ["code"] : ["codebook"], message: "Send one of: `a` and `b`, `codebook`, or `code`." });
+      else if (modes === 0) ctx.addIssue({ code: "custom", path: [], message: "Send `a` and `b` (two words), `codebook` (a list of words) or `code` (a code spec)." });
+      else if (v.code?.family === "crc" && v.crcMessageBits === undefined) ctx.addIssue({ code: "custom", path: ["crcMessageBits"], message: "A CRC code needs `crcMessageBits`." });
+      else if (pair && v.a === undefined) ctx.addIssue({ code: "custom", path: ["a"], message: "`a` is required with `b`." });
+      else if (pair && v.b === undefined) ctx.addIssue({ code: "custom", path: ["b"], message: "`b` is required with `a`." });
+    })
+    .meta({ id: "DistanceRequest", description: "Exactly one of: `a` and `b`, `codebook`, or `code`." }),
+  { oneOf: [{ required: ["a", "b"] }, { required: ["codebook"] }, { required: ["code"] }], dependentRequired: { a: ["b"], b: ["a"] }, allOf: analysisRules },
+);
 
 const pairResult = z.object({
   kind: z.literal("pair"),
@@ -69,7 +77,7 @@ const codeResult = z.object({
   minimumDistance: z.number().int(),
   correctingRadius: z.number().int(),
   detectionCapability: z.number().int(),
-  method: z.enum(["enumeration", "dual", "mds-formula"]).meta({ description: "How the weight distribution that gives dmin was found." }),
+  method: z.enum(["enumeration", "dual", "closed-form", "mds-formula"]).meta({ description: "How dmin was found: enumerating the code or its dual, or the family's closed form." }),
 });
 
 const output = z.discriminatedUnion("kind", [pairResult, codebookResult, codeResult]).meta({ id: "DistanceResult" });
@@ -84,7 +92,7 @@ export const distance = defineEndpoint({
   description:
     `With \`a\` and \`b\`: the Hamming distance, both weights and the differing positions (words up to ${MAX_WORD_BITS} bits). ` +
     "With `codebook`: the minimum distance and closest pairs, the error-correcting radius t, detection capability, decoding-sphere volume and whether the code is perfect. " +
-    "Cost: 1 unit per started 65,536 bits of a pair; for a codebook, 1 unit per started 10^6 word comparisons (pairs × ⌈n/32⌉).",
+    "With `code`: the code's minimum distance, found as POST /codes/analyze finds it.",
   input,
   output,
   examples: {
@@ -93,15 +101,21 @@ export const distance = defineEndpoint({
     codebook: { summary: "A four-word codebook of length 5", value: { codebook: ["00000", "01101", "10110", "11011"] } },
     code: { summary: "Minimum distance of the extended Golay code", value: { code: { family: "golay", extended: true } } },
   },
-  cost: (_in, out) => {
-    if (out.kind === "pair") return Math.max(1, Math.ceil(out.length / 65536));
-    if (out.kind === "codebook") return Math.max(1, Math.ceil((out.pairsCompared * Math.ceil(out.length / 32)) / 1e6));
-    return analysisUnits({ n: out.n, k: out.k, weightDistribution: { method: out.method } });
+  work: (req) => {
+    if (req.code) return analysisWork({ code: req.code, crcMessageBits: req.crcMessageBits, matrices: false, weightDistribution: false });
+    if (req.codebook) {
+      const m = req.codebook.length;
+      const n = wordBits(req.codebook[0]!, 1);
+      return 64 + 8 * m * n + 4 * ((m * (m - 1)) / 2) * Math.ceil(n / 32);
+    }
+    return 64 + 4 * (wordBits(req.a!, 1) + wordBits(req.b!, 1));
   },
+  workRule:
+    "a pair: 4 per bit of the two words + 64; a codebook of M words of n bits: 4·M(M − 1)/2·⌈n/32⌉ word comparisons + 8·M·n + 64; a code: as POST /codes/analyze without matrices or the weight distribution.",
   handler: (req) => {
     if (req.code) {
-      const a = analyzeSpec({ code: req.code, crcMessageBits: req.crcMessageBits, matrices: false });
-      return { kind: "code" as const, name: a.code.name, n: a.n, k: a.k, minimumDistance: a.minimumDistance, correctingRadius: a.correctingRadius, detectionCapability: a.detectionCapability, method: a.weightDistribution.method };
+      const a = analyzeSpec({ code: req.code, crcMessageBits: req.crcMessageBits, matrices: false, weightDistribution: false });
+      return { kind: "code" as const, name: a.code.name, n: a.n, k: a.k, minimumDistance: a.minimumDistance, correctingRadius: a.correctingRadius, detectionCapability: a.detectionCapability, method: distanceMethod(req.code, a.n, a.k) };
     }
     if (req.codebook) {
       const words = req.codebook.map((w, i) => at(["codebook", i], () => parseBits(w, MAX_CODEBOOK_WORD_BITS)));

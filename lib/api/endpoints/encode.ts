@@ -2,9 +2,11 @@ import { z } from "zod";
 import { crcComputeBits } from "@/lib/core/codes/crc";
 import type { BlockCode, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
-import { codeSpec } from "../code-spec";
+import { codeSpec, wordRules } from "../code-spec";
 import { atWord, codeSummary, crcParams, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
+import { batchWork } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
+import { documentRules } from "../schemas";
 
 /** Words per call. */
 export const MAX_BATCH_WORDS = 1024;
@@ -51,12 +53,15 @@ function encodeTogether(code: BlockCode, messages: Word[]): Word[] | undefined {
   return messages.map((_, i) => codewords.subarray(i * n, (i + 1) * n));
 }
 
-const input = z
-  .strictObject({
-    code: codeSpec,
-    messages: z.array(wordInput).min(1).max(MAX_BATCH_WORDS).meta({ description: `1 to ${MAX_BATCH_WORDS} messages of k bits (k symbols for Reed–Solomon; any length for CRC).` }),
-  })
-  .meta({ id: "EncodeRequest" });
+const input = documentRules(
+  z
+    .strictObject({
+      code: codeSpec,
+      messages: z.array(wordInput).min(1).max(MAX_BATCH_WORDS).meta({ description: `1 to ${MAX_BATCH_WORDS} messages of k bits (k symbols for Reed–Solomon; any length for CRC).` }),
+    })
+    .meta({ id: "EncodeRequest" }),
+  { allOf: wordRules("messages") },
+);
 
 const output = z
   .object({
@@ -79,7 +84,7 @@ export const encode = defineEndpoint({
   summary: "Encode messages with any supported block code, bit-exact",
   description:
     `A batch of up to ${MAX_BATCH_WORDS} messages (at most ${MAX_BATCH_BITS} codeword bits in all). Systematic encoders put the message first; ` +
-    "`code.bitOrder` in the response states each family's order exactly. Cost: 1 unit per started 65,536 codeword bits.",
+    "`code.bitOrder` in the response states each family's order exactly.",
   input,
   output,
   examples: {
@@ -92,7 +97,9 @@ export const encode = defineEndpoint({
     },
     golay: { summary: "Extended Golay (24,12)", value: { code: { family: "golay", extended: true }, messages: ["1100 1010 0101"] } },
   },
-  cost: (_in, out) => Math.max(1, Math.ceil(out.codewords.reduce((s, c) => s + (typeof c.codeword === "string" ? c.codeword.length : c.codeword.length * Math.log2(out.code.q)), 0) / 65536)),
+  work: (req) => batchWork(req.code, req.messages, "encode"),
+  workRule: "the code's construction (Reed–Solomon 6·(n − k)², BCH (m·t)²/4, a matrix code 2·rows·n·⌈n/32⌉) + per message: 8·n for repetition, parity, Hamming, Golay and CRC, " +
+    "8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 4·k·(n − k) + 16·n for Reed–Solomon (n in symbols).",
   handler: (req) => {
     const messages = req.messages.map((m, i) => at(["messages", i], () => readWord(req.code, m)));
     const codes = resolveBatch(req.code, messages, "messages", () => 0);

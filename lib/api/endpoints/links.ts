@@ -1,38 +1,86 @@
 import { z } from "zod";
 import { dbToLinear, linearToDb } from "@/lib/core/capacity";
-import { requiredEbN0, uncodedErrorRates, type Modulation } from "@/lib/core/modulation";
+import { MAX_PSK_ORDER, maximumUncodedBer, QAM_ORDERS, requiredEbN0, uncodedErrorRates, type Modulation } from "@/lib/core/modulation";
 import { at, defineEndpoint } from "../endpoint";
-import { caution } from "../schemas";
+import { atLeastOneOf, caution, documentRules } from "../schemas";
 
 export const MAX_SWEEP_POINTS = 1000;
 
-const input = z
-  .strictObject({
-    modulation: z.enum(["bpsk", "qpsk", "psk", "qam"]).meta({ description: "bpsk and qpsk, or psk / qam with `order`." }),
-    order: z.number().int().min(2).max(4096).optional().meta({ description: "M for psk (a power of two ≥ 2) and qam (square: 4, 16, 64, 256, 1024, 4096)." }),
-    ebN0Db: z
-      .union([z.number().min(-50).max(100), z.array(z.number().min(-50).max(100)).min(1).max(MAX_SWEEP_POINTS)])
-      .optional()
-      .meta({ description: `Eb/N0 in dB, or a sweep of up to ${MAX_SWEEP_POINTS} values.` }),
-    targetBer: z.number().gt(0).lt(0.5).optional().meta({ description: "Find the Eb/N0 that gives this uncoded BER." }),
-    code: z
-      .strictObject({
-        n: z.number().int().min(1).max(1_000_000),
-        k: z.number().int().min(1),
-        dmin: z.number().int().min(1),
-      })
-      .refine((c) => c.k <= c.n, { message: "k must be at most n.", path: ["k"] })
-      .refine((c) => c.dmin <= c.n - c.k + 1, { message: "dmin cannot exceed n − k + 1 (Singleton bound).", path: ["dmin"] })
-      .optional()
-      .meta({ description: "A block code (n, k, dmin): adds its asymptotic coding gain." }),
-  })
-  .superRefine((v, ctx) => {
-    if ((v.modulation === "psk" || v.modulation === "qam") && v.order === undefined) ctx.addIssue({ code: "custom", path: ["order"], message: `\`order\` is required for ${v.modulation}.` });
-    if ((v.modulation === "bpsk" || v.modulation === "qpsk") && v.order !== undefined && v.order !== (v.modulation === "bpsk" ? 2 : 4))
-      ctx.addIssue({ code: "custom", path: ["order"], message: `${v.modulation} has order ${v.modulation === "bpsk" ? 2 : 4}; leave \`order\` out.` });
-    if (v.ebN0Db === undefined && v.targetBer === undefined && v.code === undefined) ctx.addIssue({ code: "custom", path: [], message: "Give `ebN0Db`, `targetBer` or `code`." });
-  })
-  .meta({ id: "LinkBerRequest" });
+const PSK_ORDERS = Array.from({ length: Math.log2(MAX_PSK_ORDER) }, (_, i) => 2 ** (i + 1));
+/** What a request asks for: at least one of these (checked on the union, stated on it). */
+const WANTED = ["ebN0Db", "targetBer", "code"] as const;
+
+const shared = {
+  ebN0Db: z
+    .union([z.number().min(-50).max(100), z.array(z.number().min(-50).max(100)).min(1).max(MAX_SWEEP_POINTS)])
+    .optional()
+    .meta({ description: `Eb/N0 in dB, or a sweep of up to ${MAX_SWEEP_POINTS} values.` }),
+  targetBer: z
+    .number()
+    .gt(0)
+    .lt(0.5)
+    .optional()
+    .meta({
+      description:
+        "Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM.",
+    }),
+  code: z
+    .strictObject({
+      n: z.number().int().min(1).max(1_000_000),
+      k: z.number().int().min(1).max(1_000_000).meta({ description: "At most n." }),
+      dmin: z.number().int().min(1).max(1_000_000).meta({ description: "At most n − k + 1 (Singleton bound)." }),
+    })
+    .refine((c) => c.k <= c.n, { message: "k must be at most n.", path: ["k"] })
+    .refine((c) => c.dmin <= c.n - c.k + 1, { message: "dmin cannot exceed n − k + 1 (Singleton bound).", path: ["dmin"] })
+    .optional()
+    .meta({ description: "A block code (n, k, dmin): adds its asymptotic coding gain." }),
+};
+
+/** The `order` of M-PSK or M-QAM: one of `values`, refused in the core's words. */
+const orderOf = (scheme: "psk" | "qam", values: readonly number[], rule: string) =>
+  z
+    .literal(values, { error: (iss) => (iss.input === undefined ? `\`order\` is required for ${scheme}.` : `${scheme} order must be ${rule}; got ${JSON.stringify(iss.input)}`) })
+    // zod-to-openapi 9 writes only the first value of a literal with several.
+    .meta({ description: `M: ${rule}.`, enum: [...values] });
+
+/** JSON Schema: targetBer below the modulation's BER at Eb/N0 = 0, per order. */
+const targetBerRules = (scheme: "psk" | "qam", orders: readonly number[]) => ({
+  allOf: orders.map((order) => ({
+    if: { properties: { order: { const: order } }, required: ["order"] },
+    then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }) } } },
+  })),
+});
+
+const fixedOrder = (scheme: "bpsk" | "qpsk", order: number) =>
+  z
+    .literal(order, { error: `${scheme} has order ${order}; leave \`order\` out.` })
+    .optional()
+    .meta({ description: `${order}, the only order of ${scheme}; may be left out.` });
+
+const input = documentRules(
+  z
+    .discriminatedUnion("modulation", [
+      z.strictObject({ modulation: z.literal("bpsk"), order: fixedOrder("bpsk", 2), ...shared }).meta({ description: "BPSK." }),
+      z.strictObject({ modulation: z.literal("qpsk"), order: fixedOrder("qpsk", 4), ...shared }).meta({ description: "QPSK, Gray-mapped." }),
+      documentRules(
+        z
+          .strictObject({ modulation: z.literal("psk"), order: orderOf("psk", PSK_ORDERS, `a power of 2 from 2 to ${MAX_PSK_ORDER}`), ...shared })
+          .meta({ description: "M-PSK, Gray-mapped." }),
+        targetBerRules("psk", PSK_ORDERS),
+      ),
+      documentRules(
+        z
+          .strictObject({ modulation: z.literal("qam"), order: orderOf("qam", QAM_ORDERS, `a square constellation size, one of ${QAM_ORDERS.join(", ")}`), ...shared })
+          .meta({ description: "Square M-QAM, Gray-mapped." }),
+        targetBerRules("qam", QAM_ORDERS),
+      ),
+    ])
+    .superRefine((v, ctx) => {
+      if (WANTED.every((f) => v[f] === undefined)) ctx.addIssue({ code: "custom", path: [], message: `Give at least one of ${WANTED.map((f) => `\`${f}\``).join(", ")}.` });
+    })
+    .meta({ id: "LinkBerRequest", description: "The modulation, and at least one of `ebN0Db`, `targetBer` and `code`." }),
+  { allOf: [atLeastOneOf(...WANTED)] },
+);
 
 const output = z
   .object({
@@ -75,7 +123,7 @@ export const linkBer = defineEndpoint({
   summary: "Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain",
   description:
     "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). " +
-    "The inverse is found by root finding (exact inverse for BPSK/QPSK). Cost: 1 unit per 100 sweep points (at least 1).",
+    "The inverse is found by root finding (exact inverse for BPSK/QPSK).",
   input,
   output,
   examples: {
@@ -84,7 +132,13 @@ export const linkBer = defineEndpoint({
     target: { summary: "Eb/N0 for BER 1e-6 with 8-PSK", value: { modulation: "psk", order: 8, targetBer: 1e-6 } },
     gain: { summary: "Coding gain of a (23,12) code with dmin 7 and BPSK at BER 1e-5", value: { modulation: "bpsk", targetBer: 1e-5, code: { n: 23, k: 12, dmin: 7 } } },
   },
-  cost: (req) => Math.max(1, Math.ceil((Array.isArray(req.ebN0Db) ? req.ebN0Db.length : 1) / 100)),
+  work: (req) => {
+    // M-PSK's symbol error is Craig's integral at each point; the other modulations have closed forms.
+    const perPoint = req.modulation === "psk" ? 2 ** 16 : 2 ** 12;
+    const points = req.ebN0Db === undefined ? 0 : Array.isArray(req.ebN0Db) ? req.ebN0Db.length : 1;
+    return 256 + points * perPoint + (req.targetBer !== undefined ? 64 * perPoint : 0);
+  },
+  workRule: "256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point) + 64 × that per-point figure for a `targetBer` (root finding).",
   handler: (req) => {
     const mod = modulationOf(req);
     const order = req.modulation === "bpsk" ? 2 : req.modulation === "qpsk" ? 4 : req.order!;

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { usageByDayAndEndpoint } from "@/db/queries/usage";
 import { InputError } from "@/lib/core/errors";
-import { defineEndpoint } from "../endpoint";
+import { defineDataEndpoint } from "../endpoint";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "../pagination";
 
 const DAY_MS = 86_400_000;
@@ -9,12 +9,16 @@ const DAY_MS = 86_400_000;
 export const MAX_USAGE_DAYS = 400;
 // Date.parse rolls impossible days over (2026-02-30 → 2026-03-02), so the date must also read back unchanged.
 const isCalendarDate = (s: string) => !Number.isNaN(Date.parse(s)) && new Date(Date.parse(s)).toISOString().slice(0, 10) === s;
-const day = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date as YYYY-MM-DD.").refine(isCalendarDate, "Not a calendar date.");
+const day = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date as YYYY-MM-DD.")
+  .refine(isCalendarDate, "Not a calendar date.")
+  .meta({ format: "date" });
 const cursorShape = z.object({ day: z.string(), endpoint: z.string() });
 
 const input = z
   .strictObject({
-    from: day.optional().meta({ description: "First UTC day, inclusive (default: 29 days before `to`)." }),
+    from: day.optional().meta({ description: `First UTC day, inclusive (default: 29 days before \`to\`); not after \`to\`, and the period at most ${MAX_USAGE_DAYS} days.` }),
     to: day.optional().meta({ description: "Last UTC day, inclusive (default: today)." }),
     limit: limitParam(500, 100),
     cursor: cursorParam,
@@ -39,7 +43,7 @@ const output = z
   })
   .meta({ id: "UsagePage" });
 
-export const usage = defineEndpoint({
+export const usage = defineDataEndpoint({
   id: "usage",
   method: "GET",
   path: "/usage",

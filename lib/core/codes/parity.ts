@@ -74,6 +74,16 @@ export function parity(n: number, kind: "even" | "odd" = "even"): BlockCode {
         row[k] = 1;
         return row;
       });
+    // Every even-weight word: A_w = C(n, w) for even w (MacWilliams & Sloane 1977, ch. 1).
+    code.weightDistribution = () => {
+      const a: bigint[] = [1n];
+      let c = 1n;
+      for (let w = 1; w <= n; w++) {
+        c = (c * BigInt(n - w + 1)) / BigInt(w);
+        a.push(w % 2 === 0 ? c : 0n);
+      }
+      return a;
+    };
   }
   return code;
 }

@@ -43,5 +43,7 @@ export function repetition(n: number): BlockCode {
       return { message: Uint8Array.of(bit), codeword: new Uint8Array(n).fill(bit), correctedPositions, syndrome, failure: false };
     },
     generatorRows: () => [new Uint8Array(n).fill(1)],
+    // The all-zero and the all-one word (MacWilliams & Sloane 1977, ch. 1).
+    weightDistribution: () => Array.from({ length: n + 1 }, (_, w) => (w === 0 || w === n ? 1n : 0n)),
   };
 }

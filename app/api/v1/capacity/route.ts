@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { capacity } from "@/lib/api/endpoints/capacity";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(capacity);

@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { decode } from "@/lib/api/endpoints/decode";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(decode);

@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { distance } from "@/lib/api/endpoints/distance";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(distance);

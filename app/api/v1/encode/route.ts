@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { encode } from "@/lib/api/endpoints/encode";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(encode);

@@ -1,4 +1,4 @@
-import { requestIdFor } from "@/lib/api/endpoint";
+import { requestIdFor } from "@/lib/api/http";
 import { buildOpenApiDocument } from "@/openapi/document";
 
 const document = JSON.stringify(buildOpenApiDocument());

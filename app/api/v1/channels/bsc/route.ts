@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { bsc } from "@/lib/api/endpoints/bsc";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(bsc);

@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/endpoint";
+import { routes } from "@/lib/api/http";
 import { analyze } from "@/lib/api/endpoints/analyze";
 
 export const { GET, POST, PUT, PATCH, DELETE } = routes(analyze);

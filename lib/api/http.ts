@@ -1,0 +1,182 @@
+import { randomBytes } from "node:crypto";
+import { getDb, type Db } from "@/db";
+import { InputError } from "@/lib/core/errors";
+import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
+import { authenticate, requireScope, type KeyPrincipal } from "./auth";
+import { parseJsonBody, readBodyText } from "./body";
+import type { Endpoint, Method } from "./endpoint";
+import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, type ProblemCode } from "./errors";
+import { beginIdempotent, finishIdempotent } from "./idempotency";
+import { meter } from "./metering";
+import { consumeRate } from "./rate-limit";
+import { checkWork, unitsFor, workLimits } from "./work";
+
+const REQUEST_ID = /^[A-Za-z0-9._:-]{8,128}$/;
+
+export function requestIdFor(req: Request): string {
+  const given = req.headers.get("x-request-id");
+  return given && REQUEST_ID.test(given) ? given : `req_${randomBytes(12).toString("hex")}`;
+}
+
+function validationFailed(errors: { pointer: string; message: string }[]): ApiError {
+  const first = errors[0];
+  const detail = errors.length === 1 && first ? `${first.pointer || "the body"}: ${first.message}` : `${errors.length} fields are invalid; see errors.`;
+  return new ApiError("validation-failed", detail, { errors });
+}
+
+const inputProblem = (e: InputError) => validationFailed([{ pointer: toPointer(e.path), message: e.message }]);
+const asProblem = (err: unknown) => (err instanceof InputError ? inputProblem(err) : err);
+
+function readInput(req: Request, bodyText: string, method: Method): unknown {
+  if (method === "GET") return Object.fromEntries(new URL(req.url).searchParams);
+  return parseJsonBody(req, bodyText);
+}
+
+/** What the pool's refusal means to the caller, and what the call is charged for it. */
+function poolProblem(r: PoolRefusal): ApiError {
+  if (r.reason === "busy") {
+    return new ApiError("server-busy", "Every compute worker is busy and the queue is full; retry in a few seconds.", { headers: { "retry-after": "2" } });
+  }
+  if (r.reason === "deadline") {
+    return new ApiError("deadline-exceeded", `The computation was stopped at the per-call deadline of ${r.limit / 1000} s. Split the batch or choose a smaller code.`, {
+      limit: { quantity: "time", allowed: r.limit, unit: "ms" },
+    });
+  }
+  return new ApiError("memory-limit", `The computation was stopped when it passed the per-task memory ceiling of ${r.limit} MiB. Split the batch or choose a smaller code.`, {
+    limit: { quantity: "memory", allowed: r.limit, unit: "MiB" },
+  });
+}
+
+/** Run a math endpoint's handler: on the event loop when its work is small, else on the pool's request lane. Returns the JSON text. */
+async function runCompute(e: Extract<Endpoint, { kind: "compute" }>, input: unknown, work: number): Promise<string> {
+  if (work <= workLimits.inline) return JSON.stringify(e.handler(input));
+  const reply = await runTask("request", { kind: "endpoint", id: e.id, input }, poolLimits.deadlineMs);
+  if (reply.ok) return reply.json;
+  const err = reply.error;
+  if (err.kind === "input") throw new InputError(err.message, err.path);
+  throw new ApiError(err.code as ProblemCode, err.detail, err.extra);
+}
+
+const routeCache = new WeakMap<Endpoint, (req: Request) => Promise<Response>>();
+
+/** The Next.js route handler of an endpoint: key auth, rate limit, scope, idempotency, validation, work, metering, problems. */
+export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Response> {
+  const hit = routeCache.get(spec);
+  if (hit) return hit;
+
+  const route = async (req: Request): Promise<Response> => {
+    const requestId = requestIdFor(req);
+    const started = performance.now();
+    const at0 = new Date();
+    let principal: KeyPrincipal | undefined;
+    let headers: Record<string, string> = {};
+    let units = 0;
+    let response: Response;
+    let db: Db | undefined;
+    try {
+      db = await getDb();
+      principal = await authenticate(db, req.headers.get("authorization"), at0);
+      // Every call of a known key counts against its rate, refused ones too: a key without the scope must not be a free loop of metered writes.
+      headers = await consumeRate(principal.keyId);
+      requireScope(principal, spec.scope);
+      response = await run(req, db, principal, requestId, headers, (u) => (units = u));
+    } catch (err) {
+      response = problemResponse(asProblem(err), requestId);
+      for (const [k, v] of Object.entries(headers)) if (!response.headers.has(k)) response.headers.set(k, v);
+    }
+    if (db && principal) {
+      try {
+        await meter(db, { principal, endpoint: spec.id, method: spec.method, status: response.status, units, durationMs: performance.now() - started, requestId, at: at0 });
+      } catch (e) {
+        console.error(`[${requestId}] metering failed`, e);
+      }
+    }
+    return response;
+  };
+
+  async function run(req: Request, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+    const bodyText = spec.method === "GET" ? "" : await readBodyText(req);
+    const raw = readInput(req, bodyText, spec.method);
+    const idemKey = spec.method === "POST" ? req.headers.get("idempotency-key") : null;
+    if (idemKey !== null) {
+      const outcome = await beginIdempotent(db, { orgId: principal.orgId, key: idemKey, endpoint: spec.id, bodyText });
+      if (outcome.kind === "replay") {
+        const { status, headers, body } = outcome.response;
+        // A replay is not charged (metered with 0 units), so its X-Compute-Units says 0, not the first call's charge.
+        const charged: Record<string, string> = "x-compute-units" in headers ? { "x-compute-units": "0" } : {};
+        return new Response(body, { status, headers: { ...headers, ...charged, ...rateHeaders, "x-request-id": requestId, "idempotency-replayed": "true" } });
+      }
+      let res: Response;
+      try {
+        res = await compute(raw, db, principal, requestId, rateHeaders, charge);
+      } catch (err) {
+        res = problemResponse(asProblem(err), requestId);
+      }
+      const body = await res.clone().text();
+      const keep = Object.fromEntries([...res.headers].filter(([k]) => k === "content-type" || k === "x-compute-units"));
+      await finishIdempotent(db, principal.orgId, idemKey, { status: res.status, headers: keep, body });
+      for (const [k, v] of Object.entries(rateHeaders)) res.headers.set(k, v);
+      return res;
+    }
+    return compute(raw, db, principal, requestId, rateHeaders, charge);
+  }
+
+  async function compute(raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+    const parsed = spec.input.safeParse(raw);
+    if (!parsed.success) throw validationFailed(fieldErrorsFromZod(parsed.error));
+    const input = parsed.data;
+    let json: string;
+    let units: number;
+    if (spec.kind === "compute") {
+      const work = spec.work(input);
+      checkWork(work, "Split the request into smaller ones, or choose a smaller code.");
+      units = unitsFor(work);
+      try {
+        json = await runCompute(spec, input, work);
+      } catch (e) {
+        // Work stopped at a deadline or the memory ceiling was done up to there: it is charged as estimated.
+        if (e instanceof PoolRefusal) {
+          if (e.reason !== "busy") charge(units);
+          throw poolProblem(e);
+        }
+        throw e;
+      }
+    } else {
+      json = JSON.stringify(await spec.handler(input, { db, principal, requestId }));
+      units = spec.cost;
+    }
+    if (process.env.NODE_ENV !== "production") {
+      const check = spec.output.safeParse(JSON.parse(json));
+      if (!check.success) throw new Error(`response of ${spec.id} does not match its schema: ${check.error.message}`);
+    }
+    charge(units);
+    return new Response(json, {
+      status: 200,
+      headers: { "content-type": "application/json", "x-request-id": requestId, "x-compute-units": String(units), ...rateHeaders },
+    });
+  }
+
+  routeCache.set(spec, route);
+  return route;
+}
+
+type RouteHandler = (req: Request) => Promise<Response>;
+
+/** The route module's exports for one path: its endpoints' handlers, and a 405 problem for every other method. */
+export function routes(...endpoints: Endpoint[]): Record<"GET" | "POST" | "PUT" | "PATCH" | "DELETE", RouteHandler> {
+  const allow = endpoints.map((e) => e.method).join(", ");
+  const notAllowed: RouteHandler = async (req) =>
+    problemResponse(new ApiError("method-not-allowed", `${req.method} is not allowed here; allowed: ${allow}.`, { headers: { allow } }), requestIdFor(req));
+  const byMethod = Object.fromEntries(endpoints.map((e) => [e.method, endpointRoute(e)]));
+  return {
+    GET: byMethod.GET ?? notAllowed,
+    POST: byMethod.POST ?? notAllowed,
+    PUT: notAllowed,
+    PATCH: notAllowed,
+    DELETE: byMethod.DELETE ?? notAllowed,
+  };
+}
+
+/** 404 problem for any path under /api/v1 that no endpoint has. */
+export const unknownRoute: RouteHandler = async (req) =>
+  problemResponse(new ApiError("not-found", `There is no endpoint ${new URL(req.url).pathname}. The API reference is at /docs.`), requestIdFor(req));
