@@ -9,18 +9,27 @@ import { insertOrg } from "@/db/queries/orgs";
 import { createKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
 import { runCodecBench, runCrcBench } from "@/bench/codecs";
+import { heavyRequests, runPoolBench } from "@/bench/compute";
 
 /**
  * HTTP benchmark on a production build over loopback: POST /api/v1/distance (auth, rate limit,
  * validation, metering write, math) beside GET /api/health (a bare handler returning a constant),
  * both measured in this run, and their ratio. PARITAS_BENCH_SECONDS sets the duration (default 10).
- * First the block codecs and the CRC engines in process (bench/codecs.ts); PARITAS_BENCH_ONLY=codecs stops after them.
+ * First the block codecs and the CRC engines in process (bench/codecs.ts; PARITAS_BENCH_ONLY=codecs stops after them),
+ * then the worker pool's throughput with 1 and 2 threads (bench/compute.ts; PARITAS_BENCH_ONLY=compute runs only that);
+ * over HTTP, last, a cheap call's latency alone and while every endpoint's heaviest allowed request runs.
  */
 const seconds = Number(process.env.PARITAS_BENCH_SECONDS ?? 10);
 
-runCodecBench();
-runCrcBench();
-if (process.env.PARITAS_BENCH_ONLY === "codecs") process.exit(0);
+const only = process.env.PARITAS_BENCH_ONLY;
+if (only !== "compute") {
+  runCodecBench();
+  runCrcBench();
+}
+if (only === "codecs") process.exit(0);
+spawnSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "inherit" });
+await runPoolBench();
+if (only === "compute") process.exit(0);
 
 async function freePort(): Promise<number> {
   return new Promise((resolve) => {
@@ -91,6 +100,20 @@ try {
     `ratio distance / constant: throughput ${(distance.requests.average / baseline.requests.average).toFixed(3)}, ` +
       `p50 latency ${(distance.latency.p50 / Math.max(baseline.latency.p50, 0.001)).toFixed(2)}×, p99 latency ${(distance.latency.p99 / Math.max(baseline.latency.p99, 0.001)).toFixed(2)}×`,
   );
+
+  // A cheap authenticated call on one connection, alone and then while every endpoint's heaviest allowed request runs in a loop.
+  const cheap = { url: `${base}/api/v1/distance`, method: "POST" as const, headers: { authorization: `Bearer ${key}`, "content-type": "application/json" }, body: distanceBody, connections: 1 };
+  const alone = await run("cheap call alone", cheap);
+  const load = heavyRequests.map((h) =>
+    autocannon({ url: `${base}${h.path}`, method: "POST", headers: cheap.headers, body: JSON.stringify(h.body), connections: 1, duration: seconds + 2, title: h.path }) as unknown as Promise<Result>,
+  );
+  await new Promise((r) => setTimeout(r, 1000));
+  const loaded = await run("cheap call under heavy load", cheap);
+  const heavy = await Promise.all(load);
+  console.log(`\nA cheap call (POST /api/v1/distance, one connection) alone and while each endpoint's heaviest allowed request loops on its own connection, ${seconds} s`);
+  console.table({ [alone.title!]: row(alone), [loaded.title!]: row(loaded) });
+  console.table(Object.fromEntries(heavy.map((h) => [h.title!, { "req/s": Math.round(h.requests.average * 10) / 10, "p50 ms": h.latency.p50, "p99 ms": h.latency.p99, "2xx": h["2xx"], non2xx: h.non2xx }])));
+  console.log(`ratio loaded / alone: p50 latency ${(loaded.latency.p50 / Math.max(alone.latency.p50, 0.001)).toFixed(2)}×, p99 latency ${(loaded.latency.p99 / Math.max(alone.latency.p99, 0.001)).toFixed(2)}× (aim: p99 within 2×)`);
 } finally {
   try {
     process.kill(-server.pid!, "SIGTERM");

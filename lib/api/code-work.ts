@@ -32,6 +32,24 @@ export interface CodeWork {
 
 const words32 = (bits: number) => Math.ceil(bits / 32);
 
+/**
+ * n − k of the narrow-sense primitive BCH code of designed distance 2t + 1 over GF(2^m): the degree of the
+ * generator, the number of exponents in the cyclotomic cosets {i·2^j mod 2^m − 1} of 1 … 2t (Lin & Costello
+ * 2004, ch. 6). At most 2^m steps, so it is cheap to know before the generator is built.
+ */
+function bchRedundancy(m: number, t: number): number {
+  const n0 = 2 ** m - 1;
+  const seen = new Uint8Array(n0);
+  let r = 0;
+  for (let i = 1; i <= Math.min(2 * t, n0 - 1); i++) {
+    for (let e = i % n0; !seen[e]; e = (2 * e) % n0) {
+      seen[e] = 1;
+      r++;
+    }
+  }
+  return r;
+}
+
 /** Rows and row length of a linear code's matrix: the first row is parsed (it is short); the others must match it. */
 function matrixShape(spec: Extract<CodeSpec, { family: "linear" }>): { rows: number; n: number } {
   const field = spec.generator ? "generator" : "parityCheck";
@@ -124,7 +142,7 @@ function shapeAndWork(spec: CodeSpec, crcMessageBits: number): CodeWork {
       const n = Math.max(0, 2 ** spec.m - 1 - spec.shorten);
       // A t beyond n/2 is invalid and refused when the code is built; clamp it so the estimate stays finite.
       const t = Math.min(spec.t, Math.ceil(n / 2));
-      const r = Math.min(spec.m * t, n);
+      const r = Math.min(bchRedundancy(spec.m, t), n);
       return {
         n,
         k: Math.max(0, n - r),
@@ -148,7 +166,7 @@ function shapeAndWork(spec: CodeSpec, crcMessageBits: number): CodeWork {
         // The generator ∏(x − α^(b+i)) over n − k roots: quadratic in n − k.
         build: 8 * 2 ** spec.m + 6 * r * r,
         decoderBuild: 0,
-        encodePerWord: 4 * spec.k * r + 16 * n,
+        encodePerWord: 8 * spec.k * r + 16 * n,
         // n − k syndromes over n symbols dominate (then Berlekamp–Massey, Chien, Forney).
         decodePerWord: 12 * n * r + 6 * r * r + 16 * n,
         scale: `n − k = ${r} parity symbols over n = ${n}`,

@@ -134,11 +134,11 @@ export function analysisWork(req: Request): number {
     const enumeration = 2 ** Math.min(k, r) * Math.ceil(n / 32);
     if (method === undefined) {
       throw refuse(
-        "Enumerating the code or its dual for the weight distribution",
+        `Enumerating the (${n},${k}) code or its dual for the weight distribution`,
         enumeration,
         MAX_ENUMERATION_WORK,
         "word operations",
-        `Analysis needs the smaller of k and n − k to be at most 24 with 2^min(k, n − k)·⌈n/32⌉ ≤ 2^28; this code has n = ${n}, k = ${k}.`,
+        `Here ${whyNoEnumeration(n, k)}: analysis needs min(k, n − k) ≤ 24 and 2^min(k, n − k)·⌈n/32⌉ ≤ 2^28.`,
         "/code",
       );
     }

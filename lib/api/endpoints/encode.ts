@@ -99,7 +99,7 @@ export const encode = defineEndpoint({
   },
   work: (req) => batchWork(req.code, req.messages, "encode"),
   workRule: "the code's construction (Reed–Solomon 6·(n − k)², BCH (m·t)²/4, a matrix code 2·rows·n·⌈n/32⌉) + per message: 8·n for repetition, parity, Hamming, Golay and CRC, " +
-    "8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 4·k·(n − k) + 16·n for Reed–Solomon (n in symbols).",
+    "8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon (n in symbols).",
   handler: (req) => {
     const messages = req.messages.map((m, i) => at(["messages", i], () => readWord(req.code, m)));
     const codes = resolveBatch(req.code, messages, "messages", () => 0);
