@@ -2,7 +2,7 @@ import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-ope
 import { z } from "zod";
 import { MAX_BODY_BYTES } from "@/lib/api/body";
 import { problemSchema, problemTypes, type ProblemCode } from "@/lib/api/errors";
-import { IDEMPOTENCY_TTL_MS } from "@/lib/api/idempotency";
+import { IDEMPOTENCY_KEY_PATTERN, IDEMPOTENCY_TTL_MS } from "@/lib/api/idempotency";
 import { RATE_WINDOW_SECONDS } from "@/lib/api/rate-limit";
 import { endpoints } from "@/lib/api/registry";
 import { caution } from "@/lib/api/schemas";
@@ -48,15 +48,23 @@ export function buildOpenApiDocument() {
       operationId: e.id,
       tags: [e.tag],
       summary: e.summary,
-      description: `${e.description}\n\nScope: \`${e.scope}\`.`,
+      description: `${e.description}${isGet ? " Unknown query parameters are refused (422)." : ""}\n\nScope: \`${e.scope}\`.`,
       security: [{ [bearer.name]: [] }],
       request: isGet
         ? { query: e.input as z.ZodObject }
         : {
             headers: z.object({
-              "Idempotency-Key": z.string().max(255).optional().meta({
-                description: `Replays the stored response for the same key and body for ${IDEMPOTENCY_TTL_MS / 3600000} h; another body with the same key is a 422 problem.`,
-              }),
+              "Idempotency-Key": z
+                .string()
+                .min(1)
+                .max(255)
+                .regex(IDEMPOTENCY_KEY_PATTERN)
+                .optional()
+                .meta({
+                  description:
+                    `1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for ${IDEMPOTENCY_TTL_MS / 3600000} h; ` +
+                    "another body with the same key is a 422 problem, and a key whose first request is still running a 409.",
+                }),
             }),
             body: { required: true, description: `JSON, at most ${MAX_BODY_BYTES} bytes.`, content: { "application/json": { schema: e.input, examples } } },
           },

@@ -5,7 +5,8 @@ import { ApiError } from "./errors";
 
 /** How long a stored response is replayed: 24 h. */
 export const IDEMPOTENCY_TTL_MS = 24 * 3600 * 1000;
-const KEY_PATTERN = /^[\x21-\x7e]{1,255}$/;
+/** An Idempotency-Key: 1 to 255 visible ASCII characters. */
+export const IDEMPOTENCY_KEY_PATTERN = /^[\x21-\x7e]{1,255}$/;
 
 export interface StoredResponse {
   status: number;
@@ -23,7 +24,7 @@ export async function beginIdempotent(
   db: Db,
   q: { orgId: number; key: string; endpoint: string; bodyText: string; now?: Date },
 ): Promise<IdempotencyOutcome> {
-  if (!KEY_PATTERN.test(q.key)) {
+  if (!IDEMPOTENCY_KEY_PATTERN.test(q.key)) {
     throw new ApiError("bad-request", "Idempotency-Key must be 1 to 255 visible ASCII characters.");
   }
   const now = q.now ?? new Date();

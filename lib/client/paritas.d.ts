@@ -11,7 +11,9 @@ export interface paths {
         put?: never;
         /**
          * A code's parameters: weight distribution, minimum distance, bounds, matrices
-         * @description n, k, rate, minimum distance, t, detection capability, sphere volume, the weight distribution (enumerated for k ≤ 24, from the dual by the MacWilliams identity for n − k ≤ 24, closed form for Reed–Solomon), Hamming, Singleton, Gilbert–Varshamov, Plotkin and Griesmer bounds with whether the code meets each, perfect and MDS flags, the undetected-error probability on a BSC, and systematic generator and parity-check matrices. A binary code with both k and n − k above 24 is refused (422). Cost: 1 unit per started 2^20 enumerated codewords × ⌈n/32⌉.
+         * @description n, k, rate, minimum distance, t, detection capability, sphere volume, the weight distribution (enumerated for k ≤ 24, from the dual by the MacWilliams identity for n − k ≤ 24, closed form for Reed–Solomon), Hamming, Singleton, Gilbert–Varshamov, Plotkin and Griesmer bounds with whether the code meets each, perfect and MDS flags, the undetected-error probability on a BSC, and systematic generator and parity-check matrices. A binary code with both k and n − k above 24 is refused (422).
+         *
+         *     **Work and cost.** building the code (for Reed–Solomon 6·(n − k)², for BCH (m·t)²/4) + enumeration 4·2^min(k, n−k)·⌈n/32⌉ (+ 2·k·n·⌈n/32⌉ + 4·(n+1)²·⌈n/64⌉ through the dual) or the closed form (repetition and parity 4·n·⌈n/64⌉; Reed–Solomon 2·k²·⌈(k·m + n)/64⌉ when the weight distribution is asked for) + 8·n·⌈n/64⌉ for the bounds + 4·k·n·⌈n/32⌉ for the matrices. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -33,7 +35,9 @@ export interface paths {
         put?: never;
         /**
          * Encode messages with any supported block code, bit-exact
-         * @description A batch of up to 1024 messages (at most 4194304 codeword bits in all). Systematic encoders put the message first; `code.bitOrder` in the response states each family's order exactly. Cost: 1 unit per started 65,536 codeword bits.
+         * @description A batch of up to 1024 messages (at most 4194304 codeword bits in all). Systematic encoders put the message first; `code.bitOrder` in the response states each family's order exactly.
+         *
+         *     **Work and cost.** the code's construction (Reed–Solomon 6·(n − k)², BCH (m·t)²/4, a matrix code 2·rows·n·⌈n/32⌉) + per message: 8·n for repetition, parity, Hamming, Golay and CRC, 8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon (n in symbols). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -55,7 +59,9 @@ export interface paths {
         put?: never;
         /**
          * Decode received words: message, corrections, syndrome and a failure flag
-         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch). Cost: 1 unit per started 16,384 codeword bits.
+         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch).
+         *
+         *     **Work and cost.** the code's construction (as for /encode; a matrix code adds its minimum distance, 4·min(2^min(k, n−k)·⌈n/32⌉, 2^28), and syndrome table, 4·min(2^(n−k)·n, 2^26)) + per word: 8·n for repetition, parity and CRC, 16·n for Hamming, 4,096 for Golay, 8·(n − k)·⌈n/32⌉ + 16·n for a matrix code plus 4·2^22·⌈(n − k)/32⌉ when n − k > 20 (pattern search), 6·n·t + 4·t² + 16·n for BCH, 12·n·(n − k) + 6·(n − k)² + 16·n for Reed–Solomon. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -77,7 +83,9 @@ export interface paths {
         put?: never;
         /**
          * Hamming distance of two words, or the minimum distance of a codebook
-         * @description With `a` and `b`: the Hamming distance, both weights and the differing positions (words up to 1048576 bits). With `codebook`: the minimum distance and closest pairs, the error-correcting radius t, detection capability, decoding-sphere volume and whether the code is perfect. Cost: 1 unit per started 65,536 bits of a pair; for a codebook, 1 unit per started 10^6 word comparisons (pairs × ⌈n/32⌉).
+         * @description With `a` and `b`: the Hamming distance, both weights and the differing positions (words up to 1048576 bits). With `codebook`: the minimum distance and closest pairs, the error-correcting radius t, detection capability, decoding-sphere volume and whether the code is perfect. With `code`: the code's minimum distance, found as POST /codes/analyze finds it.
+         *
+         *     **Work and cost.** a pair: 4 per bit of the two words + 64; a codebook of M words of n bits: 4·M(M − 1)/2·⌈n/32⌉ word comparisons + 8·M·n + 64; a code: as POST /codes/analyze without matrices or the weight distribution. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -99,7 +107,9 @@ export interface paths {
         put?: never;
         /**
          * Flip counts, block error and post-decoding BER on a binary symmetric channel
-         * @description Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate. Cost: 1 unit.
+         * @description Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate.
+         *
+         *     **Work and cost.** n + 64: the binomial sums run over at most n terms (always on the event loop; 1 unit). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -121,7 +131,9 @@ export interface paths {
         put?: never;
         /**
          * Channel capacity, the Shannon limit on Eb/N0 for a rate, and the gap to it
-         * @description BSC 1 − H2(p); BEC 1 − ε; real AWGN ½·log2(1 + S/N) per real dimension and B·log2(1 + S/N) bits/s with a bandwidth (Shannon–Hartley), limit (2^(2R) − 1)/(2R); BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding. Cost: 1 unit.
+         * @description BSC 1 − H2(p); BEC 1 − ε; real AWGN ½·log2(1 + S/N) per real dimension and B·log2(1 + S/N) bits/s with a bandwidth (Shannon–Hartley), limit (2^(2R) − 1)/(2R); BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding.
+         *
+         *     **Work and cost.** 256 for BSC, BEC and AWGN (closed forms); 2^23 for BPSK-input AWGN (numerical integration), plus 2^24 when a `rate` asks for its Shannon limit (root finding over the integral). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -143,7 +155,9 @@ export interface paths {
         put?: never;
         /**
          * Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain
-         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). The inverse is found by root finding (exact inverse for BPSK/QPSK). Cost: 1 unit per 100 sweep points (at least 1).
+         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). The inverse is found by root finding (exact inverse for BPSK/QPSK).
+         *
+         *     **Work and cost.** 256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point) + 64 × that per-point figure for a `targetBer` (root finding). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -163,7 +177,7 @@ export interface paths {
         };
         /**
          * The organisation's metered usage by day and endpoint
-         * @description Calls, compute units and errors per UTC day and endpoint for the calling key's organisation, over a period of at most 400 days, with cursor pagination. Cost: 0 units.
+         * @description Calls, compute units and errors per UTC day and endpoint for the calling key's organisation, over a period of at most 400 days, with cursor pagination. Cost: 0 units. Unknown query parameters are refused (422).
          *
          *     Scope: `usage:read`.
          */
@@ -207,13 +221,13 @@ export interface components {
             correctingRadius: number;
             /** @description dmin − 1. */
             detectionCapability: number;
-            /** @description Words within distance t of a codeword, Σ_{i≤t} C(n,i)(q−1)^i (exact). */
-            sphereVolume: string;
+            /** @description Words within distance t of a codeword, Σ_{i≤t} C(n,i)(q−1)^i, exact; left out when it has more than 65536 bits (see log2SphereVolume). */
+            sphereVolume?: string;
             log2SphereVolume: number;
-            /** @description Enumerated for k ≤ 24; from the dual by the MacWilliams identity for n − k ≤ 24; the closed form for MDS (Reed–Solomon) codes. */
-            weightDistribution: {
+            /** @description Enumerated for k ≤ 24; from the dual by the MacWilliams identity for n − k ≤ 24; closed forms for repetition and parity codes and for MDS (Reed–Solomon) codes. Left out when `weightDistribution` is false. */
+            weightDistribution?: {
                 /** @enum {string} */
-                method: "enumeration" | "dual" | "mds-formula";
+                method: "enumeration" | "dual" | "closed-form" | "mds-formula";
                 /** @description Non-zero A_w (exact integers as strings). */
                 terms: {
                     weight: number;
@@ -308,19 +322,31 @@ export interface components {
                 pointer: string;
                 message: string;
             }[];
+            /** @description Work, deadline and memory limits: the quantity, what the request needed (when known) and what one call allows. */
+            limit?: {
+                quantity: string;
+                requested?: number;
+                allowed: number;
+                unit: string;
+            };
         };
         AnalyzeRequest: {
             code: components["schemas"]["CodeSpec"];
             /** @description CRC only: the message length k the CRC protects (required for CRC). */
             crcMessageBits?: number;
-            /** @description BSC crossover probability: adds the undetected-error probability from the weight distribution. */
+            /** @description BSC crossover probability: adds the undetected-error probability from the weight distribution (binary codes, not Reed–Solomon). */
             p?: number;
             /**
              * @description Return G and H in systematic form (when each has at most 65536 entries).
              * @default true
              */
             matrices: boolean;
-        };
+            /**
+             * @description Return the weight distribution (exact integers, at most 4194304 digits in all). false skips it, and for Reed–Solomon codes also the work of computing it.
+             * @default true
+             */
+            weightDistribution: boolean;
+        } & (unknown & unknown & unknown);
         /** @description Which code: chosen by `family`. */
         CodeSpec: components["schemas"]["RepetitionCode"] | components["schemas"]["ParityCode"] | components["schemas"]["HammingCode"] | components["schemas"]["GolayCode"] | components["schemas"]["LinearCode"] | components["schemas"]["CrcCode"] | components["schemas"]["BchCode"] | components["schemas"]["ReedSolomonCode"];
         /** @description (n, 1) repetition code, majority decoding; an even n reports a tie as a failure. */
@@ -342,6 +368,7 @@ export interface components {
             family: "parity";
             n: number;
             /**
+             * @description Odd parity words are a coset, not a linear code: analysis and minimum distance take even parity only.
              * @default even
              * @enum {string}
              */
@@ -373,91 +400,104 @@ export interface components {
              */
             extended: boolean;
         };
-        /** @description Any binary linear code from a generator or parity-check matrix (n ≤ 4096); syndrome decoding. */
+        /** @description Any binary linear code from a generator or parity-check matrix (exactly one of them; n ≤ 4096); syndrome decoding: a coset-leader table up to n − k = 20, then bounded-distance search up to 2^22 error patterns per word, else the decoder is refused (422). */
         LinearCode: {
             /**
              * @description discriminator enum property added by openapi-typescript
              * @enum {string}
              */
             family: "linear";
-            /** @description Generator matrix G (k rows of length n). */
-            generator?: components["schemas"]["Bits"][];
-            /** @description Parity-check matrix H (n − k rows of length n). */
-            parityCheck?: components["schemas"]["Bits"][];
-        };
-        /** @description A binary word, at most 1048576 bits: a 0/1 string, an array of 0/1, or hex. */
-        Bits: string | number[] | {
+            /** @description Generator matrix G: k rows of one length n (at most 4096 bits), linearly independent. */
+            generator?: components["schemas"]["MatrixRow"][];
+            /** @description Parity-check matrix H: n − k rows of one length n (at most 4096 bits), linearly independent. */
+            parityCheck?: components["schemas"]["MatrixRow"][];
+        } & (unknown | unknown);
+        /** @description A binary word, at most 4096 bits: a 0/1 string, an array of 0/1, or hex. */
+        MatrixRow: string | number[] | {
             /**
-             * @description Hex digits, first digit's most significant bit first; optional 0x.
+             * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
              * @example b2
              */
             hex: string;
-            /** @description Take only the first `length` bits (default: 4 per digit). */
+            /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
             length?: number;
         };
         /** @description CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. */
         CrcCode: {
+            /** @enum {string} */
+            family: "crc";
             /**
-             * @description discriminator enum property added by openapi-typescript
+             * @description A catalogue name or alias such as CRC-32/ISO-HDLC (letter case is ignored); explicit parameters override it.
              * @enum {string}
              */
-            family: "crc";
-            /** @description A catalogue name such as CRC-32/ISO-HDLC; explicit parameters override it. */
-            preset?: string;
+            preset?: "CRC-3/GSM" | "CRC-4/G-704" | "CRC-4/ITU" | "CRC-5/USB" | "CRC-7/MMC" | "CRC-7" | "CRC-8/SMBUS" | "CRC-8" | "CRC-8/MAXIM-DOW" | "CRC-8/MAXIM" | "DOW-CRC" | "CRC-8/AUTOSAR" | "CRC-8/BLUETOOTH" | "CRC-10/ATM" | "CRC-10" | "CRC-10/I-610" | "CRC-12/UMTS" | "CRC-12/3GPP" | "CRC-16/ARC" | "ARC" | "CRC-16" | "CRC-16/LHA" | "CRC-IBM" | "CRC-16/IBM-3740" | "CRC-16/AUTOSAR" | "CRC-16/CCITT-FALSE" | "CRC-16/KERMIT" | "CRC-16/BLUETOOTH" | "CRC-16/CCITT" | "CRC-16/CCITT-TRUE" | "CRC-16/V-41-LSB" | "CRC-CCITT" | "KERMIT" | "CRC-16/XMODEM" | "CRC-16/ACORN" | "CRC-16/LTE" | "CRC-16/V-41-MSB" | "XMODEM" | "ZMODEM" | "CRC-16/MODBUS" | "MODBUS" | "CRC-16/USB" | "CRC-16/GENIBUS" | "CRC-16/DARC" | "CRC-16/EPC" | "CRC-16/EPC-C1G2" | "CRC-16/I-CODE" | "CRC-16/MAXIM-DOW" | "CRC-16/MAXIM" | "CRC-24/OPENPGP" | "CRC-24" | "CRC-31/PHILIPS" | "CRC-32/ISO-HDLC" | "CRC-32" | "CRC-32/ADCCP" | "CRC-32/V-42" | "CRC-32/XZ" | "PKZIP" | "CRC-32/ISCSI" | "CRC-32/BASE91-C" | "CRC-32/CASTAGNOLI" | "CRC-32/INTERLAKEN" | "CRC-32C" | "CRC-32C/ISCSI" | "CRC-32/BZIP2" | "CRC-32/AAL5" | "CRC-32/DECT-B" | "B-CRC-32" | "CRC-32/MPEG-2" | "CRC-32/CKSUM" | "CKSUM" | "CRC-32/POSIX" | "CRC-32/JAMCRC" | "JAMCRC" | "CRC-40/GSM" | "CRC-64/ECMA-182" | "CRC-64" | "CRC-64/XZ" | "CRC-64/GO-ECMA" | "CRC-64/WE";
+            /** @description Register width in bits; required without a `preset`. */
             width?: number;
-            /** @description Generator polynomial without its top bit: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
+            /** @description Generator polynomial without its top bit, not zero; below 2^width; required without a `preset`: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             poly?: string | number;
-            /** @description Initial register value: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
+            /** @description Initial register value; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             init?: string | number;
             /** @description Reflect each input byte. */
             refin?: boolean;
             /** @description Reflect the final register. */
             refout?: boolean;
-            /** @description Value XORed into the final register: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
+            /** @description Value XORed into the final register; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             xorout?: string | number;
-        };
+        } & ((unknown | unknown) & {
+            /**
+             * @description discriminator enum property added by openapi-typescript
+             * @enum {string}
+             */
+            family: "crc";
+        });
         /** @description Binary narrow-sense primitive BCH code; Berlekamp–Massey and Chien search. */
         BchCode: {
+            /** @enum {string} */
+            family: "bch";
+            /** @description Field GF(2^m): n = 2^m − 1 before shortening. */
+            m: number;
+            /** @description Designed error-correcting capability: 1 to 2^(m−1) − 1, so that k ≥ 1. */
+            t: number;
+            /**
+             * @description Leading message bits fixed at zero and not sent: fewer than k of the full-length code (at most 2^m − m − 2 whatever t is).
+             * @default 0
+             */
+            shorten: number;
+            /** @description Primitive polynomial of GF(2^m), with its top bit (degree m): a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
+            primitivePoly?: string | number;
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & {
             /**
              * @description discriminator enum property added by openapi-typescript
              * @enum {string}
              */
             family: "bch";
-            /** @description Field GF(2^m): n = 2^m − 1 before shortening. */
-            m: number;
-            /** @description Designed error-correcting capability. */
-            t: number;
-            /**
-             * @description Leading message bits fixed at zero and not sent.
-             * @default 0
-             */
-            shorten: number;
-            /** @description Primitive polynomial of GF(2^m), with its top bit: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
-            primitivePoly?: string | number;
-        };
+        });
         /** @description Reed–Solomon over GF(2^m); errors-and-erasures decoding (Forney). */
         ReedSolomonCode: {
+            /** @enum {string} */
+            family: "rs";
+            /** @description Symbol size in bits: GF(2^m). */
+            m: number;
+            /** @description Length in symbols, at most 2^m − 1 (the default; less is a shortened code). */
+            n?: number;
+            /** @description Message symbols: fewer than n. */
+            k: number;
+            /**
+             * @description b, below 2^m − 1: the generator's roots are α^b … α^(b+n−k−1).
+             * @default 1
+             */
+            firstRoot: number;
+            /** @description Primitive polynomial of GF(2^m), with its top bit (degree m): a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
+            primitivePoly?: string | number;
+            /** @description The primitive element α as a field element below 2^m whose powers give every non-zero element (default 2, i.e. x). */
+            primitiveElement?: number;
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & {
             /**
              * @description discriminator enum property added by openapi-typescript
              * @enum {string}
              */
             family: "rs";
-            /** @description Symbol size in bits: GF(2^m). */
-            m: number;
-            /** @description Length in symbols (default 2^m − 1; less is a shortened code). */
-            n?: number;
-            /** @description Message symbols. */
-            k: number;
-            /**
-             * @description b: the generator's roots are α^b … α^(b+n−k−1).
-             * @default 1
-             */
-            firstRoot: number;
-            /** @description Primitive polynomial of GF(2^m), with its top bit: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
-            primitivePoly?: string | number;
-            /** @description The primitive element α as a field element (default 2, i.e. x). */
-            primitiveElement?: number;
-        };
+        });
         EncodeResult: {
             code: components["schemas"]["CodeSummary"];
             codewords: {
@@ -471,15 +511,15 @@ export interface components {
             code: components["schemas"]["CodeSpec"];
             /** @description 1 to 1024 messages of k bits (k symbols for Reed–Solomon; any length for CRC). */
             messages: components["schemas"]["Word"][];
-        };
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown);
         /** @description Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). CRC: bits in the order they enter the register, or bytes as { text } (UTF-8) or { hex }, each byte entering most significant bit first (least significant first when refin). */
         Word: string | number[] | {
             /**
-             * @description Hex digits, first digit's most significant bit first; optional 0x.
+             * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
              * @example b2
              */
             hex: string;
-            /** @description Take only the first `length` bits (default: 4 per digit). */
+            /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
             length?: number;
         } | number[] | {
             text: string;
@@ -505,9 +545,9 @@ export interface components {
             code: components["schemas"]["CodeSpec"];
             /** @description 1 to 1024 received words of n bits (n symbols for Reed–Solomon). */
             words: components["schemas"]["Word"][];
-            /** @description Per word, 0-based positions whose value is unknown (parity and Reed–Solomon codes). Same length as `words`. */
+            /** @description Per word, distinct 0-based positions below n whose value is unknown: parity and Reed–Solomon codes only (other families take empty lists). Same length as `words`. */
             erasures?: number[][];
-        };
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown);
         DistanceResult: {
             /** @enum {string} */
             kind: "pair";
@@ -554,38 +594,49 @@ export interface components {
             correctingRadius: number;
             detectionCapability: number;
             /**
-             * @description How the weight distribution that gives dmin was found.
+             * @description How dmin was found: enumerating the code or its dual, or the family's closed form.
              * @enum {string}
              */
-            method: "enumeration" | "dual" | "mds-formula";
+            method: "enumeration" | "dual" | "closed-form" | "mds-formula";
         };
-        DistanceRequest: {
+        /** @description Exactly one of: `a` and `b`, `codebook`, or `code`. */
+        DistanceRequest: ({
             /** @description First word (with `b`). */
             a?: string | number[] | {
                 /**
-                 * @description Hex digits, first digit's most significant bit first; optional 0x.
+                 * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
                  * @example b2
                  */
                 hex: string;
-                /** @description Take only the first `length` bits (default: 4 per digit). */
+                /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
                 length?: number;
             };
             /** @description Second word, the same length as `a`. */
             b?: string | number[] | {
                 /**
-                 * @description Hex digits, first digit's most significant bit first; optional 0x.
+                 * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
                  * @example b2
                  */
                 hex: string;
-                /** @description Take only the first `length` bits (default: 4 per digit). */
+                /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
                 length?: number;
             };
             /** @description Words of one length (2 to 4096 words, at most 4096 bits each, at most 1048576 bits in all). */
-            codebook?: components["schemas"]["Bits"][];
-            /** @description A code spec: the minimum distance of that code (as POST /codes/analyze finds it). */
+            codebook?: components["schemas"]["CodebookWord"][];
+            /** @description A code spec: the minimum distance of that code (as POST /codes/analyze finds it; odd parity is refused there). */
             code?: components["schemas"]["RepetitionCode"] | components["schemas"]["ParityCode"] | components["schemas"]["HammingCode"] | components["schemas"]["GolayCode"] | components["schemas"]["LinearCode"] | components["schemas"]["CrcCode"] | components["schemas"]["BchCode"] | components["schemas"]["ReedSolomonCode"];
-            /** @description With a CRC `code`: the message length. */
+            /** @description With a CRC `code`: the message length (required there). */
             crcMessageBits?: number;
+        } & (unknown & unknown)) & (unknown | unknown | unknown);
+        /** @description A binary word, at most 4096 bits: a 0/1 string, an array of 0/1, or hex. */
+        CodebookWord: string | number[] | {
+            /**
+             * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
+             * @example b2
+             */
+            hex: string;
+            /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
+            length?: number;
         };
         BscResult: {
             n: number;
@@ -639,9 +690,9 @@ export interface components {
              * @example 0.001
              */
             p: number;
-            /** @description i: report P(exactly / at most / more than i flips in n). */
+            /** @description i, at most n: report P(exactly / at most / more than i flips in n). */
             flips?: number;
-            /** @description Errors corrected per block by a bounded-distance decoder. */
+            /** @description Errors corrected per block by a bounded-distance decoder, at most n. */
             t?: number;
         };
         CapacityResult: {
@@ -695,7 +746,7 @@ export interface components {
             /** @description Erasure probability ε. */
             erasure: number;
             rate?: number;
-        } | {
+        } | ({
             /** @enum {string} */
             channel: "awgn";
             /** @description Signal-to-noise ratio S/N in dB. */
@@ -708,7 +759,7 @@ export interface components {
             rate?: number;
             /** @description Bandwidth B in Hz: adds the Shannon–Hartley capacity B·log2(1 + S/N) in bits/s. */
             bandwidthHz?: number;
-        } | {
+        } & (unknown | unknown | unknown)) | ({
             /** @enum {string} */
             channel: "bpsk-awgn";
             /** @description Es/N0 per BPSK symbol in dB. */
@@ -716,7 +767,7 @@ export interface components {
             /** @description Eb/N0 in dB; needs `rate` (Es/N0 = R·Eb/N0). */
             ebN0Db?: number;
             rate?: number;
-        };
+        } & (unknown | unknown));
         LinkBerResult: {
             modulation: string;
             order: number;
@@ -748,25 +799,88 @@ export interface components {
             };
             caution: string;
         };
-        LinkBerRequest: {
+        /** @description The modulation, and at least one of `ebN0Db`, `targetBer` and `code`. */
+        LinkBerRequest: (unknown | unknown | unknown) & ({
+            /** @enum {string} */
+            modulation: "bpsk";
             /**
-             * @description bpsk and qpsk, or psk / qam with `order`.
-             * @enum {string}
+             * @description 2, the only order of bpsk; may be left out.
+             * @enum {number}
              */
-            modulation: "bpsk" | "qpsk" | "psk" | "qam";
-            /** @description M for psk (a power of two ≥ 2) and qam (square: 4, 16, 64, 256, 1024, 4096). */
-            order?: number;
+            order?: 2;
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
-            /** @description Find the Eb/N0 that gives this uncoded BER. */
+            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
             targetBer?: number;
             /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
             code?: {
                 n: number;
+                /** @description At most n. */
                 k: number;
+                /** @description At most n − k + 1 (Singleton bound). */
                 dmin: number;
             };
-        };
+        } | {
+            /** @enum {string} */
+            modulation: "qpsk";
+            /**
+             * @description 4, the only order of qpsk; may be left out.
+             * @enum {number}
+             */
+            order?: 4;
+            /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
+            ebN0Db?: number | number[];
+            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            targetBer?: number;
+            /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
+            code?: {
+                n: number;
+                /** @description At most n. */
+                k: number;
+                /** @description At most n − k + 1 (Singleton bound). */
+                dmin: number;
+            };
+        } | ({
+            /** @enum {string} */
+            modulation: "psk";
+            /**
+             * @description M: a power of 2 from 2 to 1024.
+             * @enum {number}
+             */
+            order: 2 | 4 | 8 | 16 | 32 | 64 | 128 | 256 | 512 | 1024;
+            /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
+            ebN0Db?: number | number[];
+            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            targetBer?: number;
+            /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
+            code?: {
+                n: number;
+                /** @description At most n. */
+                k: number;
+                /** @description At most n − k + 1 (Singleton bound). */
+                dmin: number;
+            };
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown)) | ({
+            /** @enum {string} */
+            modulation: "qam";
+            /**
+             * @description M: a square constellation size, one of 4, 16, 64, 256, 1024, 4096.
+             * @enum {number}
+             */
+            order: 4 | 16 | 64 | 256 | 1024 | 4096;
+            /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
+            ebN0Db?: number | number[];
+            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            targetBer?: number;
+            /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
+            code?: {
+                n: number;
+                /** @description At most n. */
+                k: number;
+                /** @description At most n − k + 1 (Singleton bound). */
+                dmin: number;
+            };
+        } & (unknown & unknown & unknown & unknown & unknown & unknown)));
         UsagePage: {
             /** @description Slug of the calling key's organisation. */
             org: string;
@@ -797,7 +911,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -951,7 +1065,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1105,7 +1219,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1259,7 +1373,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1413,7 +1527,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1567,7 +1681,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1721,7 +1835,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1874,7 +1988,7 @@ export interface operations {
     usage: {
         parameters: {
             query?: {
-                /** @description First UTC day, inclusive (default: 29 days before `to`). */
+                /** @description First UTC day, inclusive (default: 29 days before `to`); not after `to`, and the period at most 400 days. */
                 from?: string;
                 /** @description Last UTC day, inclusive (default: today). */
                 to?: string;

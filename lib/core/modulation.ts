@@ -8,7 +8,8 @@ export type Modulation = { scheme: "bpsk" } | { scheme: "qpsk" } | { scheme: "ps
 
 /** Largest M-PSK order accepted; beyond it the required Eb/N0 leaves the [−20, 80] dB search range. */
 export const MAX_PSK_ORDER = 1024;
-const QAM_ORDERS = [4, 16, 64, 256, 1024, 4096];
+/** Square M-QAM constellation sizes accepted. */
+export const QAM_ORDERS: readonly number[] = [4, 16, 64, 256, 1024, 4096];
 
 /** Gaussian tail Q(x) = ½·erfc(x/√2) (Proakis & Salehi 2008, ch. 2). */
 export function qfunc(x: number): number {
@@ -131,6 +132,11 @@ export function uncodedErrorRates(
       };
     }
   }
+}
+
+/** The uncoded BER at Eb/N0 = 0, the supremum of the BER curve: ½, (M − 1)/(M·log2 M) for M-PSK, (2/log2 M)(1 − 1/√M) for M-QAM (the formulas of uncodedErrorRates at 0). */
+export function maximumUncodedBer(mod: Modulation): number {
+  return maximumBer(resolve(mod));
 }
 
 // BER at Eb/N0 = 0, the supremum of the BER curve, from the same formulas.

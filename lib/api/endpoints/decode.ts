@@ -1,26 +1,33 @@
 import { z } from "zod";
 import { formatBits } from "@/lib/core/bits";
 import { InputError } from "@/lib/core/errors";
-import { codeSpec } from "../code-spec";
+import { codeSpec, wordRules } from "../code-spec";
 import { atWord, codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
 import { at, defineEndpoint } from "../endpoint";
+import { documentRules } from "../schemas";
 import { MAX_BATCH_BITS, MAX_BATCH_WORDS, resolveBatch } from "./encode";
 
-const input = z
-  .strictObject({
-    code: codeSpec,
-    words: z.array(wordInput).min(1).max(MAX_BATCH_WORDS).meta({ description: `1 to ${MAX_BATCH_WORDS} received words of n bits (n symbols for Reed–Solomon).` }),
-    erasures: z
-      .array(z.array(z.number().int().min(0)).max(65535))
-      .max(MAX_BATCH_WORDS)
-      .optional()
-      .meta({ description: "Per word, 0-based positions whose value is unknown (parity and Reed–Solomon codes). Same length as `words`." }),
-  })
-  .superRefine((v, ctx) => {
-    if (v.erasures && v.erasures.length !== v.words.length)
-      ctx.addIssue({ code: "custom", path: ["erasures"], message: `erasures has ${v.erasures.length} entries; words has ${v.words.length}.` });
-  })
-  .meta({ id: "DecodeRequest" });
+const input = documentRules(
+  z
+    .strictObject({
+      code: codeSpec,
+      words: z.array(wordInput).min(1).max(MAX_BATCH_WORDS).meta({ description: `1 to ${MAX_BATCH_WORDS} received words of n bits (n symbols for Reed–Solomon).` }),
+      erasures: z
+        .array(z.array(z.number().int().min(0)).max(65535).meta({ uniqueItems: true }))
+        .max(MAX_BATCH_WORDS)
+        .optional()
+        .meta({
+          description:
+            "Per word, distinct 0-based positions below n whose value is unknown: parity and Reed–Solomon codes only (other families take empty lists). Same length as `words`.",
+        }),
+    })
+    .superRefine((v, ctx) => {
+      if (v.erasures && v.erasures.length !== v.words.length)
+        ctx.addIssue({ code: "custom", path: ["erasures"], message: `erasures has ${v.erasures.length} entries; words has ${v.words.length}.` });
+    })
+    .meta({ id: "DecodeRequest" }),
+  { allOf: wordRules("words", true) },
+);
 
 const output = z
   .object({
