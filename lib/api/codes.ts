@@ -89,12 +89,20 @@ export function crcParams(spec: Extract<CodeSpec, { family: "crc" }>): CrcParams
   };
 }
 
+/** A spec with its defaults filled in, so that every way of writing the same code finds the same cache entry. */
+function canonical(spec: CodeSpec): unknown {
+  const hex = (v: string | number | undefined) => (v === undefined ? undefined : big(v).toString(16));
+  if (spec.family === "rs") return { ...spec, n: spec.n ?? 2 ** spec.m - 1, primitivePoly: hex(spec.primitivePoly), primitiveElement: spec.primitiveElement ?? 2 };
+  if (spec.family === "bch") return { ...spec, primitivePoly: hex(spec.primitivePoly) };
+  return spec;
+}
+
 /**
  * The code a spec describes. CRC codes are bit-aligned: their message length `crcMessageBits` comes from
  * the word at hand. Errors point into the spec (prefix `path`).
  */
 export function resolveCode(spec: CodeSpec, path: (string | number)[], crcMessageBits?: number): BlockCode {
-  const key = createHash("sha256").update(JSON.stringify(spec)).update(`|${crcMessageBits ?? ""}`).digest("hex");
+  const key = createHash("sha256").update(JSON.stringify(canonical(spec))).update(`|${crcMessageBits ?? ""}`).digest("hex");
   return at(path, () =>
     cached(key, () => {
       switch (spec.family) {
