@@ -8,6 +8,7 @@ import * as bch255 from "./baselines/bch255";
 import { crcBitwise } from "./baselines/crc-bitwise";
 import * as golay24 from "./baselines/golay24";
 import * as hamming74 from "./baselines/hamming74";
+import * as hamming84 from "./baselines/hamming84";
 import * as rs255 from "./baselines/rs255";
 
 /**
@@ -72,10 +73,10 @@ const eachWord = (inputs: Word[], fn: (w: Word) => unknown) => () => {
   for (const w of inputs) fn(w);
 };
 
-/** The words back to back in one buffer of the code's word type, as encodeBatch takes them. */
-function concat(code: BlockCode, ws: Word[]): Word {
-  const out = code.q === 2 ? new Uint8Array(ws.length * code.k) : new Uint16Array(ws.length * code.k);
-  ws.forEach((w, i) => out.set(w, i * code.k));
+/** Words of `length` entries back to back in one buffer of the code's word type, as encodeBatch and decodeBatch take them. */
+function concat(code: BlockCode, ws: Word[], length: number): Word {
+  const out = code.q === 2 ? new Uint8Array(ws.length * length) : new Uint16Array(ws.length * length);
+  ws.forEach((w, i) => out.set(w, i * length));
   return out;
 }
 
@@ -84,25 +85,33 @@ const sameWord = (a: Word, b: Word) => a.length === b.length && a.every((v, j) =
 export function runCodecBench(ms = Number(process.env.PARITAS_BENCH_CODEC_MS ?? 1000)): void {
   const cases: Case[] = [
     { name: "Hamming (7,4), 1 error", code: hamming(3), baseline: hamming74 as Baseline, errors: 1 },
+    { name: "extended Hamming (8,4), 1 error", code: hamming(3, true), baseline: hamming84 as Baseline, errors: 1 },
     { name: "Golay (24,12), 3 errors", code: golay(true), baseline: golay24 as Baseline, errors: 3 },
     { name: "BCH (255,239), 2 errors", code: bch({ m: 8, t: 2 }), baseline: bch255 as Baseline, errors: 2 },
     { name: "RS (255,223), 16 errors", code: rs({ m: 8, k: 223 }), baseline: rs255 as Baseline, errors: 16 },
   ];
   const rows: Record<string, Record<string, string>> = {};
-  // Each case's code name and number of messages, by the path its shipped encoder was timed on.
+  // Each case's code name and number of words, by the path its shipped encoder and decoder were timed on.
   const batched: string[] = [];
   const perWord: string[] = [];
+  const batchedDecode: string[] = [];
+  const perWordDecode: string[] = [];
+  // Where decode was timed through decodeBatch: the per-word figure beside it.
+  const oneByOne: string[] = [];
   for (const c of cases) {
     const count = Math.max(16, Math.ceil(20000 / c.code.n));
     const { messages, received } = words(c.code, count, c.errors, 7);
-    // Both decoders must agree before their speeds mean anything.
+    // Both decoders must agree, on the path that is timed, before their speeds mean anything.
+    const receivedBatch = concat(c.code, received, c.code.n);
+    const decodeBatch = c.code.decodeBatch?.bind(c.code);
+    const decoded = decodeBatch?.(receivedBatch, count);
     for (let i = 0; i < count; i++) {
-      const a = c.code.decode(received[i]!).message;
+      const a = decoded ? decoded.messages.subarray(i * c.code.k, (i + 1) * c.code.k) : c.code.decode(received[i]!).message;
       const b = c.baseline.decode(received[i]!);
       if (!sameWord(a, b) || !sameWord(a, messages[i]!)) throw new Error(`${c.name}: decoders disagree on word ${i}`);
     }
     // So must the encoders, on the path that is timed.
-    const batch = concat(c.code, messages);
+    const batch = concat(c.code, messages, c.code.k);
     const encodeBatch = c.code.encodeBatch?.bind(c.code);
     const shipped = encodeBatch?.(batch, count);
     messages.forEach((m, i) => {
@@ -112,10 +121,15 @@ export function runCodecBench(ms = Number(process.env.PARITAS_BENCH_CODEC_MS ?? 
     const info = c.code.k * Math.log2(c.code.q);
     const bits = count * info;
     (encodeBatch ? batched : perWord).push(`${c.code.name} ${count}`);
+    (decodeBatch ? batchedDecode : perWordDecode).push(`${c.code.name} ${count}`);
     const encFast = throughput(bits, encodeBatch ? () => encodeBatch(batch, count) : eachWord(messages, (m) => c.code.encode(m)), ms);
     const encBase = throughput(bits, eachWord(messages, (m) => c.baseline.encode(m)), ms);
-    const decFast = throughput(bits, eachWord(received, (w) => c.code.decode(w)), ms);
+    const decFast = throughput(bits, decodeBatch ? () => decodeBatch(receivedBatch, count) : eachWord(received, (w) => c.code.decode(w)), ms);
     const decBase = throughput(bits, eachWord(received, (w) => c.baseline.decode(w)), ms);
+    if (decodeBatch) {
+      const single = throughput(bits, eachWord(received, (w) => c.code.decode(w)), ms);
+      oneByOne.push(`${c.code.name} ${single.toFixed(2)} Mbit/s (decodeBatch ${(decFast / single).toFixed(1)}× that)`);
+    }
     rows[c.name] = {
       "encode Mbit/s": encFast.toFixed(2),
       "baseline": encBase.toFixed(2),
@@ -126,17 +140,22 @@ export function runCodecBench(ms = Number(process.env.PARITAS_BENCH_CODEC_MS ?? 
     };
   }
   console.log(
-    `\nBlock codecs in process, information bits, ${ms} ms per measurement; shipped encode through encodeBatch where the code has it ` +
+    `\nBlock codecs in process, information bits, ${ms} ms per measurement; shipped encode and decode through encodeBatch and decodeBatch where the code has them ` +
       "(baseline: straightforward implementation, one word per call, same words)",
   );
   console.table(rows);
   console.log(
-    "Measured paths: shipped encode = " +
-      [batched.length > 0 ? `one encodeBatch call over all of a case's messages (${batched.join(", ")} messages)` : "", perWord.length > 0 ? `encode one word per call (${perWord.join(", ")} messages)` : ""]
-        .filter(Boolean)
-        .join("; ") +
-      "; shipped decode and both baselines = one word per call.",
+    `Measured paths: shipped encode = ${paths("encodeBatch", "encode", batched, perWord, "messages")}; ` +
+      `shipped decode = ${paths("decodeBatch", "decode", batchedDecode, perWordDecode, "words")}; both baselines = one word per call.`,
   );
+  if (oneByOne.length > 0) console.log(`Shipped decode one word per call instead, for comparison: ${oneByOne.join("; ")}.`);
+}
+
+/** How a shipped path was timed: one batch call over each case's words, or one word per call; each with the cases' code names and counts. */
+function paths(batchCall: string, call: string, batched: string[], perWord: string[], noun: string): string {
+  return [batched.length > 0 ? `one ${batchCall} call over all of a case's ${noun} (${batched.join(", ")} ${noun})` : "", perWord.length > 0 ? `${call} one word per call (${perWord.join(", ")} ${noun})` : ""]
+    .filter(Boolean)
+    .join("; ");
 }
 
 /** CRC throughput (MB/s of message) of the table-driven engine beside the bit-serial register, on the same 64 KiB. */

@@ -1,11 +1,45 @@
 import { z } from "zod";
 import { formatBits } from "@/lib/core/bits";
+import type { BlockCode, DecodeResult, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec, wordRules } from "../code-spec";
 import { atWord, codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
 import { MAX_BATCH_BITS, MAX_BATCH_WORDS, resolveBatch } from "./encode";
+
+/**
+ * The results of two or more words that all belong to `code`, from one decodeBatch call over them back to
+ * back, or undefined when the code has no batch path, a word is not n bits, or the batch is refused. The
+ * per-word path then runs and reports which word is wrong and how, exactly as it always has.
+ */
+function decodeTogether(code: BlockCode, words: Word[]): DecodeResult[] | undefined {
+  if (!code.decodeBatch || words.length < 2) return undefined;
+  const { k, n } = code;
+  if (!words.every((w) => w instanceof Uint8Array && w.length === n)) return undefined;
+  const batch = new Uint8Array(words.length * n);
+  words.forEach((w, i) => batch.set(w, i * n));
+  let d;
+  try {
+    d = code.decodeBatch(batch, words.length);
+  } catch (e) {
+    if (e instanceof InputError) return undefined;
+    throw e;
+  }
+  const { messages, codewords, corrected, syndromes, failures } = d;
+  return words.map((_, i) => {
+    const reason = d.reason(i);
+    return {
+      message: messages.subarray(i * k, (i + 1) * k),
+      codeword: codewords.subarray(i * n, (i + 1) * n),
+      correctedPositions: corrected[i]! < 0 ? [] : [corrected[i]!],
+      // The syndrome integer's bit n − k − 1 − j is entry j.
+      syndrome: Uint8Array.from({ length: n - k }, (_, j) => (syndromes[i]! >>> (n - k - 1 - j)) & 1),
+      failure: failures[i] === 1,
+      ...(reason !== undefined ? { reason } : {}),
+    };
+  });
+}
 
 const input = documentRules(
   z
@@ -78,11 +112,13 @@ export const decode = defineEndpoint({
     const words = req.words.map((w, i) => at(["words", i], () => readWord(req.code, w)));
     // A CRC word is message + CRC: the message length is the word's minus the width.
     const codes = resolveBatch(req.code, words, "words", (width) => width);
+    // Every family but CRC (whose k is each word's length) has one code for the whole batch; erasures go word by word.
+    const together = req.code.family === "crc" || req.erasures?.some((e) => e.length > 0) ? undefined : decodeTogether(codes[0]!, words);
     const results = words.map((w, i) => {
       const code = codes[i]!;
       const erasures = req.erasures?.[i];
       if (erasures?.length && !code.supportsErasures) throw new InputError(`${code.name} does not take erasures`, ["erasures", i]);
-      const r = atWord("words", i, () => code.decode(w, erasures?.length ? erasures : undefined));
+      const r = together?.[i] ?? atWord("words", i, () => code.decode(w, erasures?.length ? erasures : undefined));
       return {
         message: formatWord(code, r.message),
         codeword: formatWord(code, r.codeword),

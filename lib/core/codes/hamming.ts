@@ -1,7 +1,7 @@
 import { type Bits, popcount32 } from "../bits";
 import { InputError } from "../errors";
 import { checkBinaryWord, rejectErasures } from "../gf2";
-import type { BlockCode, DecodeResult, Word } from "./types";
+import type { BlockCode, DecodeBatchResult, DecodeResult, Word } from "./types";
 
 /** Largest r accepted: n = 2^16 − 1 = 65535 bits and a 2^16-entry syndrome table. */
 export const MAX_HAMMING_R = 16;
@@ -9,22 +9,22 @@ export const MAX_HAMMING_R = 16;
 const MAX_GENERATOR_N = 1024;
 
 /**
- * Checks the shape of a batch of `count` binary messages of k bits each, stored back to back: the count,
- * the type and the total length. The encoder's loop checks the bits and reports one through firstNonBit.
- * Shared by the binary families' encodeBatch.
+ * Checks the shape of a batch of `count` binary words of `length` bits each, stored back to back: the count,
+ * the type and the total length. The kernel's loop checks the bits and reports one through firstNonBit.
+ * Shared by the binary families' encodeBatch (field "messages") and decodeBatch (field "received", noun "words").
  */
-export function checkBinaryBatch(messages: Word, count: number, k: number, codeName: string): Bits {
+export function checkBinaryBatch(words: Word, count: number, length: number, codeName: string, field = "messages", noun = "messages"): Bits {
   if (!Number.isSafeInteger(count) || count < 0) throw new InputError(`count must be a non-negative integer; got ${count}`, ["count"]);
-  if (!(messages instanceof Uint8Array)) throw new InputError(`messages must be bits (0/1); ${codeName} is a binary code`, ["messages"]);
-  if (messages.length !== count * k) throw new InputError(`messages has ${messages.length} bits; ${count} messages of ${codeName} take ${count * k}`, ["messages"]);
-  return messages;
+  if (!(words instanceof Uint8Array)) throw new InputError(`${field} must be bits (0/1); ${codeName} is a binary code`, [field]);
+  if (words.length !== count * length) throw new InputError(`${field} has ${words.length} bits; ${count} ${noun} of ${codeName} take ${count * length}`, [field]);
+  return words;
 }
 
-/** The InputError for the first entry of a batch of k-bit messages that is not 0 or 1 (call only when there is one). */
-export function firstNonBit(messages: Bits, k: number): InputError {
-  const f = messages.findIndex((v) => v > 1);
-  const j = Math.floor(f / k);
-  return new InputError(`message ${j} bit ${f - j * k} is ${messages[f]}; bits are 0 or 1`, ["messages", j, f - j * k]);
+/** The InputError for the first entry of a batch of words of `length` bits that is not 0 or 1 (call only when there is one). */
+export function firstNonBit(words: Bits, length: number, field = "messages", noun = "message"): InputError {
+  const f = words.findIndex((v) => v > 1);
+  const j = Math.floor(f / length);
+  return new InputError(`${noun} ${j} bit ${f - j * length} is ${words[f]}; bits are 0 or 1`, [field, j, f - j * length]);
 }
 
 /*
@@ -73,6 +73,106 @@ function nibbleTable(extended: boolean, column: Int32Array, k: number, n: number
   return table;
 }
 
+const syndromeTables = new Map<number, Int32Array>();
+
+/**
+ * table[16c + v]: the syndrome integer (decodeBatch's form) of a word that is zero except for the nibble v at
+ * positions 4c..4c+3 (bit 3 of v = position 4c), for every whole nibble of the word. `share[p]` is the syndrome
+ * of a single 1 at position p. The syndrome is linear, so a word's is the XOR of its nibbles' entries. Cached by n.
+ */
+function syndromeTable(share: Int32Array): Int32Array {
+  const n = share.length;
+  const hit = syndromeTables.get(n);
+  if (hit) return hit;
+  const table = new Int32Array(16 * (n >>> 2));
+  for (let c = 0; c < table.length / 16; c++) {
+    for (let v = 1; v < 16; v++) {
+      const b = 31 - Math.clz32(v & -v); // lowest set bit of v: position 4c + 3 − b
+      table[16 * c + v] = table[16 * c + (v & (v - 1))]! ^ share[4 * c + 3 - b]!;
+    }
+  }
+  syndromeTables.set(n, table);
+  return table;
+}
+
+const wordTables = new Map<number, Int32Array>();
+
+/**
+ * r = 3 (n = 7 or 8): table[v] packs what `decode` answers for the received word v (bit n − 1 − p = position p):
+ * the corrected codeword in bits 0..7 (same order), the syndrome integer in bits 8..11, 1 + the corrected
+ * position in bits 12..15 (0: none) and failure in bit 16. Made by decoding all 2^n words once.
+ */
+function wordTable(n: number, decode: (w: Bits) => DecodeResult): Int32Array {
+  const hit = wordTables.get(n);
+  if (hit) return hit;
+  const table = new Int32Array(1 << n);
+  const toInt = (w: Word) => Array.from(w).reduce((x, b) => (x << 1) | b, 0);
+  for (let v = 0; v < 1 << n; v++) {
+    const d = decode(Uint8Array.from({ length: n }, (_, p) => (v >>> (n - 1 - p)) & 1));
+    const at = d.correctedPositions.length === 1 ? 1 + d.correctedPositions[0]! : 0;
+    table[v] = toInt(d.codeword) | (toInt(d.syndrome) << 8) | (at << 12) | (Number(d.failure) << 16);
+  }
+  wordTables.set(n, table);
+  return table;
+}
+
+/** decodeBatch's arrays while a kernel fills them (DecodeBatchResult without the reason). */
+interface BatchOut {
+  messages: Bits;
+  codewords: Bits;
+  corrected: Int32Array;
+  syndromes: Int32Array;
+  failures: Uint8Array;
+}
+
+/**
+ * The arrays of a batch of `count` words, as views over one zeroed buffer (one allocation instead of five):
+ * syndromes and corrected (4 bytes a word, first so that they are aligned), then messages, codewords, failures.
+ */
+function batchOut(count: number, k: number, n: number): BatchOut {
+  const buffer = new ArrayBuffer(count * (8 + k + n + 1));
+  return {
+    syndromes: new Int32Array(buffer, 0, count),
+    corrected: new Int32Array(buffer, 4 * count, count),
+    messages: new Uint8Array(buffer, 8 * count, count * k),
+    codewords: new Uint8Array(buffer, count * (8 + k), count * n),
+    failures: new Uint8Array(buffer, count * (8 + k + n), count),
+  };
+}
+
+const DOUBLE_ERROR = "double error detected (non-zero syndrome, even overall parity); not corrected";
+
+/**
+ * decodeBatch for r = 3 (n = 7 or 8): one wordTable lookup per word. The word is read as two overlapping 32-bit
+ * words (positions 0..3 and n − 4..n − 1) and gathered into an n-bit integer; its table entry gives the corrected
+ * codeword, written back as two 32-bit words (the first, positions 0..3, also being the message), the syndrome,
+ * the correction and the failure flag. No allocation per word. Returns the OR of what it read.
+ */
+function decodeRun3(table: Int32Array, n: number, src: Bits, count: number, out: BatchOut): number {
+  const { syndromes, corrected, failures } = out;
+  const sv = byteView(src);
+  const cv = byteView(out.codewords);
+  const mv = byteView(out.messages);
+  const shift = n - 4; // where the second read starts; its last `shift` bits are new
+  const low = (1 << shift) - 1;
+  let seen = 0;
+  for (let i = 0, f = 0; i < count; i++, f += n) {
+    const a = sv.getUint32(f, true);
+    const b = sv.getUint32(f + shift, true);
+    seen |= a | b;
+    const e = table[(nibble(a) << shift) | (nibble(b) & low)]!;
+    const head = SPREAD[(e >>> shift) & 15]!;
+    mv.setUint32(4 * i, head, true);
+    cv.setUint32(f, head, true);
+    cv.setUint32(f + shift, SPREAD[e & 15]!, true);
+    syndromes[i] = (e >>> 8) & 15;
+    corrected[i] = ((e >>> 12) & 15) - 1;
+    // Only the extended (8,4) code can fail: the plain code's flags stay 0 from the allocation.
+    if (n === 8) failures[i] = e >>> 16;
+  }
+  return seen;
+}
+
 /**
  * The Hamming code of redundancy r, n = 2^r − 1, k = n − r, dmin = 3, and with `extended` the
  * (2^r, 2^r − 1 − r) code with an overall parity bit, dmin = 4 (Hamming 1950; MacWilliams & Sloane 1977,
@@ -82,7 +182,9 @@ function nibbleTable(extended: boolean, column: Int32Array, k: number, n: number
  * most significant bit first (plus, extended, the overall parity of all n bits as a last bit), so a
  * single error at position p gives the column number of p. Encoding XORs one parity-table entry per
  * message nibble. Decoding corrects one error by a syndrome table; extended, a non-zero syndrome with
- * even overall parity is a double error: failure, nothing changed.
+ * even overall parity is a double error: failure, nothing changed. decodeBatch gives the same answers for
+ * a whole batch: for r = 3 by one whole-word table lookup per word, otherwise by one syndrome-table lookup
+ * per word nibble; its arrays are views over one buffer (see batchOut).
  */
 export function hamming(r: number, extended = false): BlockCode {
   if (!Number.isInteger(r) || r < 2 || r > MAX_HAMMING_R) throw new InputError(`r must be an integer from 2 to ${MAX_HAMMING_R}; got ${r}`, ["r"]);
@@ -180,6 +282,89 @@ export function hamming(r: number, extended = false): BlockCode {
     return c;
   };
 
+  /** One checked word: the reference decoder, bit by bit (decodeBatch's kernels must agree with it). */
+  const decode = (w: Bits): DecodeResult => {
+    const s = syndromeOf(w);
+    const overall = extended ? weightParity(w) : 1;
+    const syndrome = new Uint8Array(n - k);
+    for (let j = 0; j < r; j++) syndrome[j] = (s >>> (r - 1 - j)) & 1;
+    if (extended) syndrome[r] = overall;
+    if (extended && s !== 0 && overall === 0) {
+      return { message: w.slice(0, k), codeword: w.slice(), correctedPositions: [], syndrome, failure: true, reason: DOUBLE_ERROR };
+    }
+    const codeword = w.slice();
+    const correctedPositions: number[] = [];
+    // Without the extension overall is fixed at 1, so any non-zero syndrome is one error at position[s].
+    if (overall === 1 && (s !== 0 || extended)) {
+      const p = s === 0 ? base : position[s]!;
+      codeword[p]! ^= 1;
+      correctedPositions.push(p);
+    }
+    return { message: codeword.slice(0, k), codeword, correctedPositions, syndrome, failure: false };
+  };
+
+  /*
+   * Batch decoding. Both kernels fill a BatchOut for `count` words stored back to back in src and return the
+   * OR of what they read: a non-bit shows outside 0x01010101.
+   */
+
+  // share[p]: the syndrome integer of a single 1 at position p; extended, H's column then the overall parity 1.
+  const share = Int32Array.from({ length: n }, (_, p) => (!extended ? column[p]! : p < base ? (column[p]! << 1) | 1 : 1));
+
+  /**
+   * Any r: the syndromes column by column over the batch so that the inner loops are long and branch-free (four
+   * positions at a time through the syndrome nibble table, the last n mod 4 one at a time), then per word the
+   * correction its syndrome names, then the messages copied out of the corrected codewords four bits at a time.
+   */
+  const decodeRun = (src: Bits, count: number, out: BatchOut): number => {
+    const table = syndromeTable(share);
+    const { messages, codewords, syndromes, corrected, failures } = out;
+    const sv = byteView(src);
+    let seen = 0;
+    let p = 0;
+    for (; p + 4 <= n; p += 4) {
+      const row = p << 2;
+      for (let i = 0, f = p; i < count; i++, f += n) {
+        const w = sv.getUint32(f, true);
+        seen |= w;
+        syndromes[i]! ^= table[row | nibble(w)]!;
+      }
+    }
+    for (; p < n; p++) {
+      const one = share[p]!;
+      for (let i = 0, f = p; i < count; i++, f += n) {
+        const bit = src[f]!;
+        seen |= bit;
+        syndromes[i]! ^= -(bit & 1) & one;
+      }
+    }
+    codewords.set(src);
+    for (let i = 0; i < count; i++) {
+      const s = syndromes[i]!;
+      let at = -1;
+      if (!extended) {
+        if (s !== 0) at = position[s]!;
+      } else if (s & 1) {
+        // Odd overall parity: one error, in the overall parity bit itself when H·rᵀ is zero.
+        at = s === 1 ? base : position[s >>> 1]!;
+      } else if (s !== 0) {
+        failures[i] = 1;
+      }
+      if (at >= 0) codewords[i * n + at]! ^= 1;
+      corrected[i] = at;
+    }
+    const cv = byteView(codewords);
+    const mv = byteView(messages);
+    let q = 0;
+    for (; q + 4 <= k; q += 4) {
+      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) mv.setUint32(t, cv.getUint32(f, true), true);
+    }
+    for (; q < k; q++) {
+      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) messages[t] = codewords[f]!;
+    }
+    return seen;
+  };
+
   const code: BlockCode = {
     family: "hamming",
     name,
@@ -205,23 +390,15 @@ export function hamming(r: number, extended = false): BlockCode {
     decode(received: Word, erasures?: number[]): DecodeResult {
       const w = checkBinaryWord(received, n, "received", name);
       rejectErasures(erasures, name);
-      const s = syndromeOf(w);
-      const overall = extended ? weightParity(w) : 1;
-      const syndrome = new Uint8Array(n - k);
-      for (let j = 0; j < r; j++) syndrome[j] = (s >>> (r - 1 - j)) & 1;
-      if (extended) syndrome[r] = overall;
-      if (extended && s !== 0 && overall === 0) {
-        return { message: w.slice(0, k), codeword: w.slice(), correctedPositions: [], syndrome, failure: true, reason: "double error detected (non-zero syndrome, even overall parity); not corrected" };
-      }
-      const codeword = w.slice();
-      const correctedPositions: number[] = [];
-      // Without the extension overall is fixed at 1, so any non-zero syndrome is one error at position[s].
-      if (overall === 1 && (s !== 0 || extended)) {
-        const p = s === 0 ? base : position[s]!;
-        codeword[p]! ^= 1;
-        correctedPositions.push(p);
-      }
-      return { message: codeword.slice(0, k), codeword, correctedPositions, syndrome, failure: false };
+      return decode(w);
+    },
+    decodeBatch(received: Word, count: number): DecodeBatchResult {
+      const w = checkBinaryBatch(received, count, n, name, "received", "words");
+      const out = batchOut(count, k, n);
+      // Checked after the loops so that they stay branch-free; a non-bit only spoils a result that is thrown away.
+      if ((r === 3 ? decodeRun3(wordTable(n, decode), n, w, count, out) : decodeRun(w, count, out)) & NON_BITS) throw firstNonBit(w, n, "received", "received word");
+      const { messages, codewords, corrected, syndromes, failures } = out;
+      return { messages, codewords, corrected, syndromes, failures, reason: (i) => (failures[i] ? DOUBLE_ERROR : undefined) };
     },
   };
   if (n <= MAX_GENERATOR_N) {

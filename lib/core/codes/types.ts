@@ -20,6 +20,25 @@ export interface DecodeResult {
 }
 
 /**
+ * What a batch decoder says about `count` received words (BlockCode.decodeBatch), word i being the i-th
+ * word of the batch: the same as `decode` one word at a time, in flat arrays (views that may share one buffer).
+ */
+export interface DecodeBatchResult {
+  /** count·k entries: word i's DecodeResult.message at i·k. */
+  messages: Word;
+  /** count·n entries: word i's DecodeResult.codeword at i·n. */
+  codewords: Word;
+  /** Per word, the one position in DecodeResult.correctedPositions, or −1 when it is empty: only codes that change at most one position per word offer decodeBatch. */
+  corrected: Int32Array;
+  /** Per word, the syndrome as an integer: entry j of DecodeResult.syndrome (n − k bits) is bit n − k − 1 − j, so only binary codes with n − k ≤ 31 offer decodeBatch. */
+  syndromes: Int32Array;
+  /** Per word, 1 where DecodeResult.failure is true, else 0. */
+  failures: Uint8Array;
+  /** Word i's DecodeResult.reason. */
+  reason(i: number): string | undefined;
+}
+
+/**
  * A block code: n, k and encode / decode over bits (q = 2) or over GF(2^m) symbols (q = 2^m).
  * Messages and codewords are Words: 0/1 bits (binary) or symbols 0..q−1.
  */
@@ -44,6 +63,12 @@ export interface BlockCode {
    * entries, the same as `encode` one message at a time, with the buffer validated once.
    */
   encodeBatch?(messages: Word, count: number): Word;
+  /**
+   * Optional fast path: `count` received words stored back to back (count·n entries) → a DecodeBatchResult,
+   * exactly what `decode` gives one word at a time without erasures. The buffer is validated once: its type
+   * and length, and a non-bit is reported by word and bit (path ["received", word, bit]).
+   */
+  decodeBatch?(received: Word, count: number): DecodeBatchResult;
   /** `erasures`: 0-based positions whose value is unknown, for families that support them. */
   decode(received: Word, erasures?: number[]): DecodeResult;
   /** Families that accept erasures. */
