@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { expectFieldError, expectProblem, postJson } from "../helpers/api";
+import { expectFieldError, expectProblem, expectWorkLimit, postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 
 let auth: string;
@@ -10,13 +10,12 @@ beforeAll(async () => {
 const call = (body: unknown) => postJson("/api/v1/codes/analyze", body, auth);
 
 describe("POST /codes/analyze: codes too large to analyse", () => {
-  it("BCH m = 7, t = 9 → (127,71): k = 71 and n − k = 56 both above 24 → 422 at /code, saying why", async () => {
-    expectFieldError(await call({ code: { family: "bch", m: 7, t: 9 } }), "/code", /BCH \(127,71\).*k = 71 and n − k = 56 both exceed 24/);
-  });
+  // The documented rule: analysis enumerates the code or its dual, 2^min(k, n − k)·⌈n/32⌉ word operations, at most 2^28 per call.
+  const enumeration = (n: number, k: number) => 2 ** Math.min(k, n - k) * Math.ceil(n / 32);
 
-  it("a [50,25] linear code built here ([I_25 | P]) → 422 at /code, naming both dimensions", async () => {
-    const rows = Array.from({ length: 25 }, (_, i) => "0".repeat(i) + "1" + "0".repeat(24 - i) + ((i * 40503 + 12345) % 2 ** 25).toString(2).padStart(25, "0"));
-    expectFieldError(await call({ code: { family: "linear", generator: rows } }), "/code", /k = 25 and n − k = 25 both exceed 24/);
+  it("BCH m = 7, t = 9 → (127,71): k = 71 and n − k = 56 both above 24 → 422 work-limit at /code, saying why, before any enumeration", async () => {
+    const body = expectWorkLimit(await call({ code: { family: "bch", m: 7, t: 9 } }), "/code", /\(127,71\).*k = 71 and n − k = 56 both exceed 24/);
+    expect(body.limit).toEqual({ quantity: expect.stringMatching(/weight distribution/), requested: enumeration(127, 71), allowed: 2 ** 28, unit: "word operations" });
   });
 
   it("Hamming r = 11 (n = 2047): its generator matrix is not offered → 422 at /code, not a 500", async () => {

@@ -247,6 +247,43 @@ describe("POST /codes/analyze: bound flags on trivial codes", () => {
   });
 });
 
+describe("POST /codes/analyze: closed forms of the repetition and even-parity families", () => {
+  /** Weights of all 2^k sums of the rows of G, enumerated here over integers (MacWilliams & Sloane, ch. 1). */
+  function enumerate(rows: string[]): Record<number, bigint> {
+    const counts: Record<number, bigint> = {};
+    for (let mask = 0; mask < 2 ** rows.length; mask++) {
+      let c = 0n;
+      rows.forEach((row, i) => {
+        if ((mask >> i) & 1) c ^= BigInt("0b" + row);
+      });
+      const w = [...c.toString(2)].filter((b) => b === "1").length;
+      counts[w] = (counts[w] ?? 0n) + 1n;
+    }
+    return counts;
+  }
+
+  it.each([1, 2, 9, 16])("repetition (%d,1): closed form = enumeration of G = [1 1 … 1]", async (n) => {
+    const b = await analyze({ code: { family: "repetition", n } });
+    expect(b.weightDistribution.method).toBe("closed-form");
+    expect(dist(b)).toEqual(enumerate(["1".repeat(n)]));
+    expect(b.minimumDistance).toBe(n);
+  });
+
+  it.each([2, 3, 10, 14])("even parity (%d, n − 1): closed form = enumeration of G = [I | 1]", async (n) => {
+    const b = await analyze({ code: { family: "parity", n } });
+    expect(b.weightDistribution.method).toBe("closed-form");
+    const rows = Array.from({ length: n - 1 }, (_, i) => "0".repeat(i) + "1" + "0".repeat(n - 2 - i) + "1");
+    expect(dist(b)).toEqual(enumerate(rows));
+    expect(b).toMatchObject({ minimumDistance: 2, mds: true });
+  });
+
+  it("the systematic matrices still come with a closed-form distribution: repetition (5,1) has G = [1 1 1 1 1]", async () => {
+    const b = await analyze({ code: { family: "repetition", n: 5 } });
+    expect(b.matrices?.generator).toEqual(["11111"]);
+    expect(b.matrices?.parityCheck).toHaveLength(4);
+  });
+});
+
 describe("POST /codes/analyze: linear codes and CRCs", () => {
   it("a (6,3) code from G: the weights enumerated here from the 8 combinations of rows, and G·Hᵀ = 0", async () => {
     const G = ["100110", "010101", "001011"];

@@ -192,7 +192,13 @@ describe("POST /capacity: BPSK-input AWGN", () => {
     expect(high.body.capacity.value).toBe(1);
   });
 
-  it("costs 1 unit (documented cost)", async () => {
-    expect((await call({ channel: "bpsk-awgn", esN0Db: 0 })).headers["x-compute-units"]).toBe("1");
+  it("cost follows the documented work rule: closed forms 1 unit, BPSK input 2, with a rate's Shannon limit 6", async () => {
+    // The documented rule, written out: 256 work for BSC, BEC and AWGN; 2^23 for BPSK-input AWGN, plus 2^24 with a `rate`;
+    // 1 compute unit per started 2^22 work units, at least 1.
+    const units = (work: number) => String(Math.max(1, Math.ceil(work / 2 ** 22)));
+    expect((await call({ channel: "awgn", snrDb: 10 })).headers["x-compute-units"]).toBe(units(256));
+    expect((await call({ channel: "bpsk-awgn", esN0Db: 0 })).headers["x-compute-units"]).toBe(units(2 ** 23));
+    expect((await call({ channel: "bpsk-awgn", ebN0Db: 2.5, rate: 0.5 })).headers["x-compute-units"]).toBe(units(2 ** 23 + 2 ** 24));
+    expect([units(256), units(2 ** 23), units(2 ** 23 + 2 ** 24)]).toEqual(["1", "2", "6"]);
   });
 });

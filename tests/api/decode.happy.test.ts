@@ -369,8 +369,8 @@ describe("POST /decode: single parity check", () => {
 });
 
 describe("POST /decode: metering", () => {
-  // Documented cost: 1 unit per started 16,384 codeword bits.
-  const units = (bits: number) => Math.max(1, Math.ceil(bits / 16384));
+  // The documented rule: per word 16·n work for Hamming and 8·n for repetition; 1 compute unit per started 2^22 work units, at least 1.
+  const units = (work: number) => Math.max(1, Math.ceil(work / 2 ** 22));
 
   it("a small batch costs 1 unit", async () => {
     const res = await postJson("/api/v1/decode", { code: { family: "hamming", r: 3 }, words: ["1011010"] }, auth);
@@ -378,14 +378,24 @@ describe("POST /decode: metering", () => {
     expect(Number(res.headers["x-compute-units"])).toBe(1);
   });
 
-  it("the charge grows with the batch: 1,024 Hamming (15,11) words = 15,360 bits → 1 unit; 2 repetition (65,535,1) words = 131,070 bits → 8 units", async () => {
-    const small = await postJson("/api/v1/decode", { code: { family: "hamming", r: 4 }, words: new Array(1024).fill("0".repeat(15)) }, auth);
-    expect(Number(small.headers["x-compute-units"])).toBe(units(1024 * 15));
-    expect(units(1024 * 15)).toBe(1);
-    const big = await postJson("/api/v1/decode", { code: { family: "repetition", n: 65535 }, words: [{ hex: "f".repeat(16384), length: 65535 }, "0".repeat(65535)] }, auth);
-    expect(big.status, big.text).toBe(200);
-    expect(Number(big.headers["x-compute-units"])).toBe(units(2 * 65535));
-    expect(units(2 * 65535)).toBe(8);
-    expect(big.body.results.map((r: DecodeResult) => r.message)).toEqual(["1", "0"]);
+  it("1,024 Hamming (15,11) words: 1,024 · 16 · 15 = 245,760 work → 1 unit", async () => {
+    const res = await postJson("/api/v1/decode", { code: { family: "hamming", r: 4 }, words: new Array(1024).fill("0".repeat(15)) }, auth);
+    expect(res.status, res.text).toBe(200);
+    expect(Number(res.headers["x-compute-units"])).toBe(units(1024 * 16 * 15));
+    expect(units(1024 * 16 * 15)).toBe(1);
+  });
+
+  it("the charge grows with the batch: 1, 9 and 17 repetition (65,535,1) words (8 · 65,535 work each) cost 1, 2 and 3 units", async () => {
+    const got: number[] = [];
+    for (const count of [1, 9, 17]) {
+      // All-one and all-zero words in turn: majority decoding gives 1, 0, 1, …
+      const words = Array.from({ length: count }, (_, i) => (i % 2 ? { hex: "0".repeat(16384), length: 65535 } : { hex: "f".repeat(16384), length: 65535 }));
+      const res = await postJson("/api/v1/decode", { code: { family: "repetition", n: 65535 }, words }, auth);
+      expect(res.status, res.text).toBe(200);
+      expect(res.body.results.map((r: DecodeResult) => r.message)).toEqual(words.map((_, i) => (i % 2 ? "0" : "1")));
+      got.push(Number(res.headers["x-compute-units"]));
+      expect(got.at(-1)).toBe(units(count * 8 * 65535));
+    }
+    expect(got).toEqual([1, 2, 3]);
   });
 });

@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import { expectFieldError, postJson } from "../helpers/api";
+import { expectFieldError, expectWorkLimit, postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 
 let auth: string;
@@ -112,8 +112,8 @@ describe("POST /distance with { code }: the minimum distance of a code", () => {
     expectFieldError(await call({ code: { family: "golay" }, a: "1", b: "0" }), "/code", /one of/);
   });
 
-  it("a code too large to analyse → 422 at /code with the reason", async () => {
-    expectFieldError(await call({ code: { family: "bch", m: 7, t: 9 } }), "/code", /both exceed 24/);
+  it("a code too large to analyse → 422 work-limit at /code with the reason", async () => {
+    expectWorkLimit(await call({ code: { family: "bch", m: 7, t: 9 } }), "/code", /both exceed 24/);
   });
 
   it("a bad code spec points into it: unknown preset → /code/preset", async () => {

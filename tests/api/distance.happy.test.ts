@@ -80,7 +80,7 @@ describe("POST /distance: a pair of words", () => {
     expect(res.body).toMatchObject({ length: 1, distance: 1, positions: [0] });
   });
 
-  it("the largest allowed words (1,048,576 bits): all-zero vs 0101…: distance 524,288, positions truncated, 16 units", async () => {
+  it("the largest allowed words (1,048,576 bits): all-zero vs 0101…: distance 524,288, positions truncated, 3 units", async () => {
     const n = 1_048_576;
     const a = "0".repeat(n);
     const b = "01".repeat(n / 2);
@@ -97,14 +97,18 @@ describe("POST /distance: a pair of words", () => {
     expect(shown.length).toBeGreaterThan(0);
     expect(shown.length).toBeLessThan(n / 2);
     shown.forEach((p, i) => expect(p).toBe(2 * i + 1));
-    // Documented cost: 1 unit per started 65,536 bits → 1,048,576 / 65,536 = 16.
-    expect(res.headers["x-compute-units"]).toBe("16");
+    // The documented rule: 4 work per bit of the two words + 64 = 8,388,672; 1 unit per started 2^22 → 3.
+    expect(res.headers["x-compute-units"]).toBe(String(Math.ceil((4 * 2 * n + 64) / 2 ** 22)));
+    expect(res.headers["x-compute-units"]).toBe("3");
   });
 
-  it("cost: 1 unit up to 65,536 bits and 2 units from 65,537 (documented cost)", async () => {
+  it("cost: 1 unit up to 524,280-bit words and 2 units from 524,281 (the documented rule: 4·2n + 64 work, 1 unit per started 2^22)", async () => {
     const at = async (n: number) => (await call({ a: "0".repeat(n), b: "1".repeat(n) })).headers["x-compute-units"];
-    expect(await at(65_536)).toBe("1");
-    expect(await at(65_537)).toBe("2");
+    // The largest n with 4·2n + 64 ≤ 2^22.
+    const largest = (2 ** 22 - 64) / 8;
+    expect(largest).toBe(524_280);
+    expect(await at(largest)).toBe("1");
+    expect(await at(largest + 1)).toBe("2");
   });
 });
 
@@ -203,7 +207,9 @@ describe("POST /distance: a codebook", () => {
     // Every word has 12 neighbours at distance 1: 4096·12/2 = 24,576 pairs, more than the list shows.
     expect(res.body.closestPairsTruncated).toBe(true);
     expect(res.body.pairsCompared).toBe((4096 * 4095) / 2);
-    // Documented cost: 1 unit per started 10^6 comparisons of pairs × ⌈n/32⌉ words = ⌈8,386,560 / 10^6⌉ = 9.
+    // The documented rule: 4·M(M − 1)/2·⌈n/32⌉ + 8·M·n + 64 = 33,939,520 work; 1 unit per started 2^22 → 9.
+    const work = 4 * ((4096 * 4095) / 2) * Math.ceil(12 / 32) + 8 * 4096 * 12 + 64;
+    expect(res.headers["x-compute-units"]).toBe(String(Math.ceil(work / 2 ** 22)));
     expect(res.headers["x-compute-units"]).toBe("9");
   });
 

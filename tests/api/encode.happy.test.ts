@@ -359,8 +359,9 @@ describe("POST /encode: word formats and batches", () => {
 });
 
 describe("POST /encode: metering", () => {
-  // Documented cost: 1 unit per started 65,536 codeword bits.
-  const units = (bits: number) => Math.max(1, Math.ceil(bits / 65536));
+  // The documented rule: the code's construction (Reed–Solomon 6·(n − k)²) + per message 8·n for repetition and Hamming,
+  // 8·k·(n − k) + 16·n for Reed–Solomon; 1 compute unit per started 2^22 work units, at least 1.
+  const units = (work: number) => Math.max(1, Math.ceil(work / 2 ** 22));
 
   it("a small batch costs 1 unit", async () => {
     const res = await call({ code: { family: "hamming", r: 3 }, messages: ["1011", "0110"] });
@@ -368,28 +369,31 @@ describe("POST /encode: metering", () => {
     expect(Number(res.headers["x-compute-units"])).toBe(1);
   });
 
-  it("1,024 Hamming (7,4) words = 7,168 bits still cost 1 unit", async () => {
+  it("1,024 Hamming (7,4) words: 1,024 · 8 · 7 = 57,344 work → 1 unit", async () => {
     const res = await call({ code: { family: "hamming", r: 3 }, messages: new Array(1024).fill("1011") });
-    expect(Number(res.headers["x-compute-units"])).toBe(units(1024 * 7));
-    expect(Number(res.headers["x-compute-units"])).toBe(1);
+    expect(res.status, res.text).toBe(200);
+    expect(Number(res.headers["x-compute-units"])).toBe(units(1024 * 8 * 7));
+    expect(units(1024 * 8 * 7)).toBe(1);
   });
 
-  it("the charge grows with the batch: 1, 2 and 3 repetition (65,535,1) codewords cost 1, 2 and 3 units", async () => {
+  it("the charge grows with the batch: 1, 9 and 17 repetition (65,535,1) codewords (8 · 65,535 work each) cost 1, 2 and 3 units", async () => {
     const got: number[] = [];
-    for (const count of [1, 2, 3]) {
+    for (const count of [1, 9, 17]) {
       const res = await call({ code: { family: "repetition", n: 65535 }, messages: new Array(count).fill("1") });
       expect(res.status, res.text).toBe(200);
+      expect(res.body.codewords).toHaveLength(count);
       got.push(Number(res.headers["x-compute-units"]));
-      expect(got.at(-1)).toBe(units(count * 65535));
+      expect(got.at(-1)).toBe(units(count * 8 * 65535));
     }
     expect(got).toEqual([1, 2, 3]);
   });
 
-  it("Reed–Solomon symbols count m bits each: 300 RS(255,223) codewords = 612,000 bits → 10 units", async () => {
+  it("Reed–Solomon: 300 RS(255,223) codewords = 6·32² + 300·(8·223·32 + 16·255) = 18,356,544 work → 5 units", async () => {
     const message = Array.from({ length: 223 }, (_, i) => i);
     const res = await call({ code: { family: "rs", m: 8, k: 223 }, messages: new Array(300).fill(message) });
     expect(res.status, res.text).toBe(200);
-    expect(Number(res.headers["x-compute-units"])).toBe(units(300 * 255 * 8));
-    expect(units(300 * 255 * 8)).toBe(10);
+    const work = 6 * 32 ** 2 + 300 * (8 * 223 * 32 + 16 * 255);
+    expect(Number(res.headers["x-compute-units"])).toBe(units(work));
+    expect(units(work)).toBe(5);
   });
 });

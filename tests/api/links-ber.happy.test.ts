@@ -188,16 +188,36 @@ describe("POST /links/ber: coding gain and cost", () => {
     expect(res.body.coding.correctingRadius).toBe(0);
   });
 
+  // The documented rule: 256 + points × 2^12 work (2^16 per point for M-PSK, whose symbol error is an integral at each point);
+  // 1 compute unit per started 2^22 work units, at least 1.
+  const units = (work: number) => String(Math.max(1, Math.ceil(work / 2 ** 22)));
+  const sweepOf = (count: number) => Array.from({ length: count }, (_, i) => -10 + (20 * i) / count);
+
+  it.each([1, 100, 1000])("a BPSK sweep of %d points costs 1 unit (closed form: 256 + points × 2^12 ≤ 2^22)", async (count) => {
+    const res = await call({ modulation: "bpsk", ebN0Db: sweepOf(count) });
+    expect(res.body.points).toHaveLength(count);
+    expect(res.headers["x-compute-units"]).toBe(units(256 + count * 2 ** 12));
+    expect(res.headers["x-compute-units"]).toBe("1");
+  });
+
   it.each([
     [1, "1"],
-    [100, "1"],
-    [101, "2"],
-    [250, "3"],
-    [1000, "10"],
-  ])("a sweep of %d points costs %s units (documented: 1 per started 100 points)", async (count, units) => {
-    const sweep = Array.from({ length: count }, (_, i) => -10 + (20 * i) / count);
-    const res = await call({ modulation: "bpsk", ebN0Db: sweep });
+    [63, "1"],
+    [64, "2"],
+    [250, "4"],
+    [1000, "16"],
+  ])("an 8-PSK sweep of %d points costs %s units (256 + points × 2^16)", async (count, expected) => {
+    const res = await call({ modulation: "psk", order: 8, ebN0Db: sweepOf(count) });
     expect(res.body.points).toHaveLength(count);
-    expect(res.headers["x-compute-units"]).toBe(units);
+    expect(res.headers["x-compute-units"]).toBe(units(256 + count * 2 ** 16));
+    expect(res.headers["x-compute-units"]).toBe(expected);
+  });
+
+  it("a targetBer adds 64 × the per-point figure: BPSK 256 + 64·2^12 → 1 unit, 8-PSK 256 + 64·2^16 → 2 units", async () => {
+    const bpsk = await call({ modulation: "bpsk", targetBer: 1e-5 });
+    expect(bpsk.headers["x-compute-units"]).toBe(units(256 + 64 * 2 ** 12));
+    const psk = await call({ modulation: "psk", order: 8, targetBer: 1e-5 });
+    expect(psk.headers["x-compute-units"]).toBe(units(256 + 64 * 2 ** 16));
+    expect([bpsk.headers["x-compute-units"], psk.headers["x-compute-units"]]).toEqual(["1", "2"]);
   });
 });

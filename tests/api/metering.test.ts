@@ -31,12 +31,12 @@ describe("metering: one usage row per authenticated call", () => {
     const { db, org, keyId, auth } = await makeOrgWithKey();
     const calls: { e: Endpoint; input: Record<string, unknown> }[] = [
       { e: distance as unknown as Endpoint, input: { a: "1011", b: "1001" } },
-      // 100,000 bits: two started blocks of 65,536 → 2 units.
-      { e: distance as unknown as Endpoint, input: { a: "0".repeat(100_000), b: "1".repeat(100_000) } },
+      // Two 600,000-bit words: 4·2·600,000 + 64 = 4,800,064 work → 2 units.
+      { e: distance as unknown as Endpoint, input: { a: "0".repeat(600_000), b: "1".repeat(600_000) } },
       { e: bsc as unknown as Endpoint, input: { n: 7, p: 0.001, t: 1 } },
       { e: capacity as unknown as Endpoint, input: { channel: "bsc", p: 0.11 } },
-      // 150 sweep points: two started hundreds → 2 units.
-      { e: linkBer as unknown as Endpoint, input: { modulation: "bpsk", ebN0Db: Array.from({ length: 150 }, (_, i) => i / 10) } },
+      // 64 8-PSK points: 256 + 64·2^16 = 4,194,560 work → 2 units.
+      { e: linkBer as unknown as Endpoint, input: { modulation: "psk", order: 8, ebN0Db: Array.from({ length: 64 }, (_, i) => i / 10) } },
       { e: usage as unknown as Endpoint, input: {} },
     ];
     const seen: { id: string; units: number; endpoint: string; method: string }[] = [];
@@ -50,8 +50,12 @@ describe("metering: one usage row per authenticated call", () => {
       seen.push({ id: res.headers["x-request-id"]!, units, endpoint: e.id, method: e.method });
     }
     const after = new Date().toISOString();
-    // The documented costs, by hand: 1, 2, 1, 1, 2, 0.
-    expect(seen.map((s) => s.units)).toEqual([1, 2, 1, 1, 2, 0]);
+    // The documented rules, by hand (1 unit per started 2^22 work units, at least 1; GET /usage is free):
+    // distance 4·(4 + 4) + 64; distance 4·1,200,000 + 64; bsc n + 64; capacity BSC 256; links 256 + 64·2^16; usage 0.
+    const charge = (work: number) => Math.max(1, Math.ceil(work / 2 ** 22));
+    const byHand = [charge(4 * 8 + 64), charge(4 * 1_200_000 + 64), charge(7 + 64), charge(256), charge(256 + 64 * 2 ** 16), 0];
+    expect(byHand).toEqual([1, 2, 1, 1, 2, 0]);
+    expect(seen.map((s) => s.units)).toEqual(byHand);
 
     const rows = await listUsageEvents(db, org.id);
     expect(rows).toHaveLength(calls.length);
@@ -167,7 +171,8 @@ describe("metering: refused calls", () => {
 describe("metering: idempotent replays", () => {
   it("a replay is recorded with 0 units and says so in X-Compute-Units; the org is charged once", async () => {
     const { db, org, auth } = await makeOrgWithKey();
-    const body = { a: "0".repeat(100_000), b: "1".repeat(100_000) };
+    // 4·1,200,000 + 64 work: 2 units by the documented rule.
+    const body = { a: "0".repeat(600_000), b: "1".repeat(600_000) };
     const first = await postJson("/api/v1/distance", body, auth, { "idempotency-key": "meter-once-1" });
     const again = await postJson("/api/v1/distance", body, auth, { "idempotency-key": "meter-once-1" });
     expect(first.status).toBe(200);
@@ -188,9 +193,9 @@ describe("GET /usage reflects the metered calls", () => {
   it("calls, units and errors per endpoint for today match what was done", async () => {
     const { auth } = await makeOrgWithKey();
     const day = today();
-    // distance: 3 calls, 2 ok (1 + 2 units), 1 refused (422).
+    // distance: 3 calls, 2 ok (1 + 2 units: 4·2 + 64 and 4·1,200,000 + 64 work), 1 refused (422).
     await postJson("/api/v1/distance", { a: "1", b: "0" }, auth);
-    await postJson("/api/v1/distance", { a: "0".repeat(70_000), b: "0".repeat(70_000) }, auth);
+    await postJson("/api/v1/distance", { a: "0".repeat(600_000), b: "0".repeat(600_000) }, auth);
     await postJson("/api/v1/distance", { a: "1" }, auth);
     // channels.bsc: 2 calls, one of them replayed: 1 unit in all.
     await postJson("/api/v1/channels/bsc", { n: 7, p: 0.01 }, auth, { "idempotency-key": "usage-view-1" });

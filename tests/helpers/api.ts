@@ -71,3 +71,33 @@ export function expectFieldError(res: Response, pointer: string, message?: RegEx
 
 /** Relative difference |a − b| / |b| (b ≠ 0). */
 export const relErr = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+
+export interface LimitMember {
+  quantity: string;
+  requested?: number;
+  allowed: number;
+  unit: string;
+}
+
+/**
+ * A 422 work-limit problem refused before any work: its `limit` names the quantity with what the request needed
+ * (more than one call allows), `errors` points at `pointer`, and the detail and that field's message match `message`.
+ */
+export function expectWorkLimit(res: Response, pointer: string, message: RegExp): ProblemBody & { limit: LimitMember & { requested: number } } {
+  const body = expectProblem(res, 422, "work-limit") as ProblemBody & { limit?: LimitMember };
+  const limit = body.limit;
+  expect(limit, res.text).toBeDefined();
+  expect(typeof limit!.quantity).toBe("string");
+  expect(limit!.quantity.length).toBeGreaterThan(0);
+  expect(typeof limit!.unit).toBe("string");
+  expect(limit!.unit.length).toBeGreaterThan(0);
+  expect(typeof limit!.allowed).toBe("number");
+  expect(typeof limit!.requested).toBe("number");
+  expect(limit!.requested!, res.text).toBeGreaterThan(limit!.allowed);
+  expect(body.detail).toMatch(message);
+  expect(Array.isArray(body.errors), res.text).toBe(true);
+  const messages = body.errors!.filter((e) => e.pointer === pointer).map((e) => e.message);
+  expect(messages, JSON.stringify(body.errors)).not.toHaveLength(0);
+  expect(messages.some((m) => message.test(m)), JSON.stringify(body.errors)).toBe(true);
+  return body as ProblemBody & { limit: LimitMember & { requested: number } };
+}

@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import {
   analyzeCode,
   codeBounds,
+  codeParameters,
   enumerateWeightDistribution,
   gilbertVarshamovDistance,
   macWilliamsTransform,
@@ -13,6 +14,8 @@ import {
 } from "@/lib/core/analysis";
 import { golay } from "@/lib/core/codes/golay";
 import { hamming } from "@/lib/core/codes/hamming";
+import { parity } from "@/lib/core/codes/parity";
+import { repetition } from "@/lib/core/codes/repetition";
 import { InputError } from "@/lib/core/errors";
 import { nullSpace, rank } from "@/lib/core/gf2";
 
@@ -79,6 +82,35 @@ describe("weight distributions of known codes (MacWilliams & Sloane 1977)", () =
     for (const c of [golay(), golay(true)]) {
       const g = c.generatorRows!();
       expect(macWilliamsTransform(enumerateWeightDistribution(nullSpace(g), c.n))).toEqual(enumerateWeightDistribution(g));
+    }
+  });
+});
+
+describe("closed-form weight distributions of the repetition and even-parity families (MacWilliams & Sloane 1977, ch. 1)", () => {
+  // The reference is brute-force enumeration of every combination of each code's own generator rows.
+  it("repetition (n, 1), n = 1 … 16: the zero and the all-one word, as enumeration of G = [1 1 … 1] gives", () => {
+    for (let n = 1; n <= 16; n++) {
+      const code = repetition(n);
+      expect(code.weightDistribution!(), `n = ${n}`).toEqual(bruteWeights(code.generatorRows!(), n));
+    }
+  });
+
+  it("even parity (n, n − 1), n = 2 … 16: A_w = C(n, w) for even w, as enumeration of its 2^(n−1) codewords gives", () => {
+    for (let n = 2; n <= 16; n++) {
+      const code = parity(n, "even");
+      const closed = code.weightDistribution!();
+      expect(closed, `n = ${n}`).toEqual(bruteWeights(code.generatorRows!(), n));
+      // Written out as well: every even-weight word is a codeword.
+      expect(closed).toEqual(Array.from({ length: n + 1 }, (_, w) => (w % 2 === 0 ? binom(n, w) : 0n)));
+    }
+  });
+
+  it("the closed forms give the same parameters as analysing the enumerated distribution (d, t, perfect, MDS)", () => {
+    for (const code of [repetition(7), repetition(8), parity(9, "even"), parity(10, "even")]) {
+      const fromForm = codeParameters(code.k, code.weightDistribution!(), "closed-form");
+      const fromRows = analyzeCode(code.generatorRows!());
+      expect(fromForm).toMatchObject({ minimumDistance: fromRows.minimumDistance, correctingRadius: fromRows.correctingRadius, perfect: fromRows.perfect, mds: fromRows.mds, sphereVolume: fromRows.sphereVolume });
+      expect(fromForm.weightDistribution).toEqual(fromRows.weightDistribution);
     }
   });
 });
