@@ -17,4 +17,10 @@ export function decodeCursor<T extends z.ZodType>(cursor: string, schema: T): z.
 export const limitParam = (max: number, dflt: number) =>
   z.coerce.number().int().min(1).max(max).default(dflt).meta({ description: `Rows per page, 1 to ${max} (default ${dflt}).` });
 
-export const cursorParam = z.string().max(512).optional().meta({ description: "`nextCursor` of the previous page." });
+export const cursorParam = z
+  .string()
+  .max(512)
+  // encodeCursor writes base64url, so nothing else can be a cursor this API returned.
+  .regex(/^[A-Za-z0-9_-]+$/, "The cursor is not one this endpoint returned.")
+  .optional()
+  .meta({ description: "`nextCursor` of the previous page." });

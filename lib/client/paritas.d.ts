@@ -59,9 +59,9 @@ export interface paths {
         put?: never;
         /**
          * Decode received words: message, corrections, syndrome and a failure flag
-         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch).
+         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch). Cost: 1 unit per started 16,384 codeword bits.
          *
-         *     **Work and cost.** the code's construction (as for /encode; a matrix code adds its minimum distance, 4·min(2^min(k, n−k)·⌈n/32⌉, 2^28), and syndrome table, 4·min(2^(n−k)·n, 2^26)) + per word: 8·n for repetition, parity and CRC, 16·n for Hamming, 4,096 for Golay, 8·(n − k)·⌈n/32⌉ + 16·n for a matrix code plus 4·2^22·⌈(n − k)/32⌉ when n − k > 20 (pattern search), 6·n·t + 4·t² + 16·n for BCH, 12·n·(n − k) + 6·(n − k)² + 16·n for Reed–Solomon. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** undefined A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -543,7 +543,7 @@ export interface components {
         };
         DecodeRequest: {
             code: components["schemas"]["CodeSpec"];
-            /** @description 1 to 1024 received words of n bits (n symbols for Reed–Solomon). */
+            /** @description 1 to 1024 received words of n bits (n symbols for Reed–Solomon; for CRC a message followed by its CRC, at least `width` bits). */
             words: components["schemas"]["Word"][];
             /** @description Per word, distinct 0-based positions below n whose value is unknown: parity and Reed–Solomon codes only (other families take empty lists). Same length as `words`. */
             erasures?: number[][];
@@ -751,7 +751,7 @@ export interface components {
             channel: "awgn";
             /** @description Signal-to-noise ratio S/N in dB. */
             snrDb?: number;
-            /** @description S/N as a linear ratio. */
+            /** @description S/N as a linear ratio: 0, or from 1e-10 to 1e10 (−100 to 100 dB, as `snrDb`). */
             snr?: number;
             /** @description Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 per real dimension. */
             ebN0Db?: number;

@@ -4,6 +4,15 @@ import { defineEndpoint } from "../endpoint";
 import { caution, documentRules, exactlyOneOf, probability } from "../schemas";
 
 const db = z.number().min(-100).max(100);
+// Linear S/N over the same ±100 dB as `snrDb` (or exactly 0): a subnormal S/N divided by 2R underflows to an Eb/N0 of 0, −∞ dB.
+const snrLinear = documentRules(
+  z
+    .number()
+    .min(0)
+    .max(1e10)
+    .refine((x) => x === 0 || x >= 1e-10, "S/N must be 0 or from 1e-10 to 1e10 (−100 to 100 dB)."),
+  { not: { exclusiveMinimum: 0, exclusiveMaximum: 1e-10 } },
+);
 const rate = z.number().gt(0).max(16).meta({ description: "Code rate R in information bits per real channel use (for a binary code with BPSK, k/n)." });
 
 const bsc = z.strictObject({
@@ -24,7 +33,7 @@ const awgn = documentRules(
   z.strictObject({
     channel: z.literal("awgn"),
     snrDb: db.optional().meta({ description: "Signal-to-noise ratio S/N in dB." }),
-    snr: z.number().min(0).max(1e10).optional().meta({ description: "S/N as a linear ratio." }),
+    snr: snrLinear.optional().meta({ description: "S/N as a linear ratio: 0, or from 1e-10 to 1e10 (−100 to 100 dB, as `snrDb`)." }),
     ebN0Db: db.optional().meta({ description: "Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 per real dimension." }),
     rate: rate.optional(),
     bandwidthHz: z.number().gt(0).max(1e15).optional().meta({ description: "Bandwidth B in Hz: adds the Shannon–Hartley capacity B·log2(1 + S/N) in bits/s." }),

@@ -45,7 +45,11 @@ const input = documentRules(
   z
     .strictObject({
       code: codeSpec,
-      words: z.array(wordInput).min(1).max(MAX_BATCH_WORDS).meta({ description: `1 to ${MAX_BATCH_WORDS} received words of n bits (n symbols for Reed–Solomon).` }),
+      words: z
+        .array(wordInput)
+        .min(1)
+        .max(MAX_BATCH_WORDS)
+        .meta({ description: `1 to ${MAX_BATCH_WORDS} received words of n bits (n symbols for Reed–Solomon; for CRC a message followed by its CRC, at least \`width\` bits).` }),
       erasures: z
         .array(z.array(z.number().int().min(0)).max(65535).meta({ uniqueItems: true }))
         .max(MAX_BATCH_WORDS)
