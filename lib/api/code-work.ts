@@ -12,7 +12,7 @@ import { refuse, workLimits } from "./work";
  * without building anything (a Reed–Solomon generator, a BCH generator or a linear code's tables can take
  * seconds to build, so the estimate must come first). Work is in the units of lib/api/work.ts (about a
  * nanosecond each here); the constants were fitted to timings of each family's kernels on this machine and
- * err on the high side. n − k for BCH is its upper bound m·t.
+ * err on the high side. BCH's n − k comes from its cyclotomic cosets. CODE_WORK_RULE publishes these formulas.
  */
 export interface CodeWork {
   n: number;
@@ -61,14 +61,25 @@ function matrixShape(spec: Extract<CodeSpec, { family: "linear" }>): { rows: num
 /** Message bits a CRC spec's analysis covers, and its width. */
 const crcWidth = (spec: Extract<CodeSpec, { family: "crc" }>) => spec.width ?? crcPreset(spec.preset!).width;
 
+/** The formulas of codeWork and batchWork, for the reference. */
+export const CODE_WORK_RULE =
+  "Building the code: 64 for repetition, 64 + 32·n for parity, 8·2^r for Hamming, 2^16 for Golay, 4,096 for CRC, 2·rows·n·⌈n/32⌉ + 8·rows·n for a matrix code, " +
+  "8·2^m + (m·t)²/4 for BCH, 8·2^m + 6·(n − k)² for Reed–Solomon. Per word encoded: 64 + 8·n for repetition, parity and Hamming, 256 for Golay, " +
+  "64 + 8·(bits + width) for CRC, 8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon. " +
+  "Decoding adds, for a matrix code, its minimum distance 4·min(2^min(k, n−k)·⌈n/32⌉, 2^28) and, when n − k ≤ 20, its syndrome table 4·min(2^(n−k)·n, 2^26); " +
+  "per word decoded: 64 + 8·n for repetition and parity, 64 + 16·n for Hamming, 4,096 for Golay, 64 + 8·(bits + width) for CRC, " +
+  "8·(n − k)·⌈n/32⌉ + 16·n for a matrix code (+ 4·2^22·⌈(n − k)/32⌉ when n − k > 20: the pattern search), 6·n·t + 4·t² + 16·n for BCH, 12·n·(n − k) + 6·(n − k)² + 16·n for Reed–Solomon. " +
+  "n and k in symbols for Reed–Solomon; a word's bits as sent (a `text` character counts 24).";
+
 /** The code's work estimate, refusing at once a code whose construction alone is beyond the per-call limit. */
 export function codeWork(spec: CodeSpec, crcMessageBits = 0): CodeWork {
   const cw = shapeAndWork(spec, crcMessageBits);
   if (cw.build > workLimits.max) {
+    const rMax = spec.family === "rs" ? Math.floor(Math.sqrt((workLimits.max - 8 * 2 ** spec.m) / 6)) : 0;
     const advice =
       spec.family === "rs"
-        ? `A Reed–Solomon generator of n − k roots costs 6·(n − k)²: keep n − k at most ${Math.floor(Math.sqrt(workLimits.max / 6))} (k ≥ ${cw.n - Math.floor(Math.sqrt(workLimits.max / 6))} for n = ${cw.n}).`
-        : "Choose a smaller code.";
+        ? `Building a Reed–Solomon generator costs 8·2^m + 6·(n − k)²: keep n − k at most ${rMax} (k ≥ ${cw.n - rMax} for n = ${cw.n}), and less when the request does more than build the code.`
+        : `Choose a smaller code: building this one costs ${cw.build.toExponential(2)} work units.`;
     throw refuse(`Building this code (${cw.scale})`, cw.build, workLimits.max, "work units", advice, "/code");
   }
   return cw;
@@ -101,7 +112,7 @@ export function batchWork(spec: CodeSpec, words: WordInput[], op: "encode" | "de
     const allowed = Math.floor((workLimits.max - base) / per);
     const advice =
       allowed >= 1
-        ? `This code allows at most ${allowed} ${field} per call; split the batch.`
+        ? `This code allows at most ${allowed} ${allowed === 1 ? field.slice(0, -1) : field} per call; split the batch.`
         : `Not even one word of this code fits in one call (${cw.scale}); choose a smaller code.`;
     throw refuse(`${op === "encode" ? "Encoding" : "Decoding"} ${words.length} ${field} (${cw.scale})`, total, workLimits.max, "work units", advice, allowed >= 1 ? `/${field}` : "/code");
   }
@@ -114,7 +125,8 @@ function shapeAndWork(spec: CodeSpec, crcMessageBits: number): CodeWork {
     case "parity": {
       const n = spec.n;
       const k = spec.family === "repetition" ? 1 : n - 1;
-      return { n, k, m: 1, build: 64, decoderBuild: 0, encodePerWord: 64 + 8 * n, decodePerWord: 64 + 8 * n, scale: `n = ${n}` };
+      // A parity code lists its n − 1 message positions when it is built.
+      return { n, k, m: 1, build: spec.family === "parity" ? 64 + 32 * n : 64, decoderBuild: 0, encodePerWord: 64 + 8 * n, decodePerWord: 64 + 8 * n, scale: `n = ${n}` };
     }
     case "hamming": {
       const n = 2 ** spec.r - 1 + (spec.extended ? 1 : 0);

@@ -76,13 +76,16 @@ function lane(name: Lane): Piscina {
 
 /** Run a task on a lane within `deadlineMs`; a PoolRefusal says which limit stopped it. */
 export async function runTask(name: Lane, task: PoolTask, deadlineMs = poolLimits.deadlineMs): Promise<PoolReply> {
+  const pool = lane(name);
+  // piscina checks maxQueue only for tasks without an abort signal; every task here has one, so the bound is ours.
+  if (pool.queueSize >= pool.options.maxQueue) throw new PoolRefusal("busy", pool.options.maxQueue);
   try {
-    return (await lane(name).run(task, { signal: AbortSignal.timeout(deadlineMs) })) as PoolReply;
+    return (await pool.run(task, { signal: AbortSignal.timeout(deadlineMs) })) as PoolReply;
   } catch (e) {
     const err = e as Error & { code?: string };
     if (err.name === "AbortError") throw new PoolRefusal("deadline", deadlineMs);
     if (err.code === "ERR_WORKER_OUT_OF_MEMORY") throw new PoolRefusal("memory", poolLimits.memoryMb);
-    if (err.message === "Task queue is at limit") throw new PoolRefusal("busy", lane(name).options.maxQueue);
+    if (err.message === "Task queue is at limit") throw new PoolRefusal("busy", pool.options.maxQueue);
     throw e;
   }
 }

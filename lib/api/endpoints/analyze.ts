@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { codeMatrices, codeParameters, distanceParameters, MAX_ENUMERATION_WORK, undetectedErrorProbability, weightDistribution, weightDistributionMethod, whyNoEnumeration } from "@/lib/core/analysis";
-import { formatBits, type Bits } from "@/lib/core/bits";
+import { codeMatrices, codeParameters, distanceParameters, MAX_ENUMERATION_DIMENSION, MAX_ENUMERATION_WORK, undetectedErrorProbability, weightDistribution, weightDistributionMethod, whyNoEnumeration } from "@/lib/core/analysis";
+import { formatBits } from "@/lib/core/bits";
 import type { BlockCode } from "@/lib/core/codes/types";
 import { correctingRadius, detectionCapability, log2BigInt } from "@/lib/core/distance";
 import { InputError } from "@/lib/core/errors";
@@ -133,14 +133,10 @@ export function analysisWork(req: Request): number {
     const method = weightDistributionMethod(n, k);
     const enumeration = 2 ** Math.min(k, r) * Math.ceil(n / 32);
     if (method === undefined) {
-      throw refuse(
-        `Enumerating the (${n},${k}) code or its dual for the weight distribution`,
-        enumeration,
-        MAX_ENUMERATION_WORK,
-        "word operations",
-        `Here ${whyNoEnumeration(n, k)}: analysis needs min(k, n − k) ≤ 24 and 2^min(k, n − k)·⌈n/32⌉ ≤ 2^28.`,
-        "/code",
-      );
+      const advice = `Here ${whyNoEnumeration(n, k)}: analysis needs min(k, n − k) ≤ 24 and 2^min(k, n − k)·⌈n/32⌉ ≤ 2^28.`;
+      throw Math.min(k, r) > MAX_ENUMERATION_DIMENSION
+        ? refuse(`The dimension enumerated for the weight distribution of this (${n},${k}) code, min(k, n − k),`, Math.min(k, r), MAX_ENUMERATION_DIMENSION, "dimensions", advice, "/code")
+        : refuse(`Enumerating the (${n},${k}) code or its dual for the weight distribution`, enumeration, MAX_ENUMERATION_WORK, "word operations", advice, "/code");
     }
     work += 8 * k * n + 4 * enumeration + (method === "dual" ? 2 * k * n * Math.ceil(n / 32) + 4 * (n + 1) ** 2 * words64(n) : 0);
   }
@@ -150,8 +146,10 @@ export function analysisWork(req: Request): number {
       throw refuse(`The exact weight distribution of this code (n = ${n}, k = ${k})`, digits, MAX_WEIGHT_DIGITS, "decimal digits", "Send `weightDistribution: false` to get every other parameter, or choose a shorter code.", "/weightDistribution");
     }
   }
-  // Gilbert–Varshamov and sphere-volume sums over at most n terms of n bits, the bounds' powers of two.
-  work += 8 * n * words64(n);
+  // Gilbert–Varshamov's sum stops below 2^(n−k): at most min(n, 2^(n−k)) terms of n − k + 1 bits. The sphere
+  // volume has t + 1 terms of up to n bits, t from the family's known distance or the Singleton bound n − k + 1.
+  const d = req.code.family === "repetition" ? n : req.code.family === "parity" ? 2 : r + 1;
+  work += 8 * Math.min(n, 2 ** r) * words64(r + 1) + 8 * (Math.floor((d - 1) / 2) + 1) * words64(n);
   if (req.matrices && matricesFit(n, k)) work += 4 * k * n * Math.ceil(n / 32);
   return work;
 }
@@ -270,7 +268,9 @@ export const analyze = defineEndpoint({
   },
   work: analysisWork,
   workRule:
-    "building the code (for Reed–Solomon 6·(n − k)², for BCH (m·t)²/4) + enumeration 4·2^min(k, n−k)·⌈n/32⌉ (+ 2·k·n·⌈n/32⌉ + 4·(n+1)²·⌈n/64⌉ through the dual) " +
-    "or the closed form (repetition and parity 4·n·⌈n/64⌉; Reed–Solomon 2·k²·⌈(k·m + n)/64⌉ when the weight distribution is asked for) + 8·n·⌈n/64⌉ for the bounds + 4·k·n·⌈n/32⌉ for the matrices.",
+    "building the code (as for /encode: for Reed–Solomon 8·2^m + 6·(n − k)², for BCH 8·2^m + (m·t)²/4) + enumeration 4·2^min(k, n−k)·⌈n/32⌉ (+ 2·k·n·⌈n/32⌉ + 4·(n+1)²·⌈n/64⌉ through the dual) " +
+    "or the closed form (repetition and parity 4·n·⌈n/64⌉ when the weight distribution or `p` is asked for; Reed–Solomon 2·k²·⌈(k·m + n)/64⌉ + 4·n·⌈n/64⌉ when the weight distribution is asked for) " +
+    "+ 8·k·n to read the generator + for binary codes the bounds 8·min(n, 2^(n−k))·⌈(n−k+1)/64⌉ + 8·(t+1)·⌈n/64⌉ (t from the family's distance, else ⌊(n−k)/2⌋) " +
+    "and 4·k·n·⌈n/32⌉ for matrices that are returned; for Reed–Solomon the sphere volume 4·t·⌈(t·m + n)/64⌉ (64·t when only its log2 is given, beyond 2^16 bits).",
   handler: analyzeSpec,
 });

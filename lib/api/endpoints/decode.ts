@@ -4,6 +4,7 @@ import type { BlockCode, DecodeResult, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec, wordRules } from "../code-spec";
 import { atWord, codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
+import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
 import { MAX_BATCH_BITS, MAX_BATCH_WORDS, resolveBatch } from "./encode";
@@ -94,7 +95,7 @@ export const decode = defineEndpoint({
   description:
     `Hard-decision decoding of up to ${MAX_BATCH_WORDS} words (at most ${MAX_BATCH_BITS} bits in all), with erasures where the family supports them. ` +
     "Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode " +
-    "(more errors than it corrects, a majority tie, a CRC mismatch). Cost: 1 unit per started 16,384 codeword bits.",
+    "(more errors than it corrects, a majority tie, a CRC mismatch).",
   input,
   output,
   examples: {
@@ -110,8 +111,8 @@ export const decode = defineEndpoint({
     },
     repetition: { summary: "Repetition (4,1): a tie is reported, not guessed", value: { code: { family: "repetition", n: 4 }, words: ["0011", "0111"] } },
   },
-  cost: (_in, out) =>
-    Math.max(1, Math.ceil(out.results.reduce((s, r) => s + (typeof r.codeword === "string" ? r.codeword.length : r.codeword.length * Math.log2(out.code.q)), 0) / 16384)),
+  work: (req) => batchWork(req.code, req.words, "decode"),
+  workRule: `the code's construction once, then each word. ${CODE_WORK_RULE}`,
   handler: (req) => {
     const words = req.words.map((w, i) => at(["words", i], () => readWord(req.code, w)));
     // A CRC word is message + CRC: the message length is the word's minus the width.

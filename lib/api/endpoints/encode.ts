@@ -4,7 +4,7 @@ import type { BlockCode, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec, wordRules } from "../code-spec";
 import { atWord, codeSummary, crcParams, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
-import { batchWork } from "../code-work";
+import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
 
@@ -16,8 +16,10 @@ export const MAX_BATCH_BITS = 1 << 22;
 /** Each word's code (CRC codes take their length from the word) and the batch size check. */
 export function resolveBatch(spec: z.output<typeof codeSpec>, words: Word[], field: string, crcExtra: (width: number) => number): BlockCode[] {
   const width = spec.family === "crc" ? crcParams(spec).width : 0;
+  // Resolved once: hashing a large matrix spec per word would cost more than the words.
+  const one = spec.family === "crc" ? undefined : resolveCode(spec, ["code"]);
   const codes = words.map((w, i) => {
-    if (spec.family !== "crc") return resolveCode(spec, ["code"]);
+    if (one) return one;
     // The word's length is the word's fault; the CRC's parameters are the spec's (errors at /code/...).
     const k = w.length - crcExtra(width);
     if (k < 0) throw new InputError(`the word has ${w.length} bits, fewer than the ${width}-bit CRC`, [field, i]);
@@ -98,8 +100,7 @@ export const encode = defineEndpoint({
     golay: { summary: "Extended Golay (24,12)", value: { code: { family: "golay", extended: true }, messages: ["1100 1010 0101"] } },
   },
   work: (req) => batchWork(req.code, req.messages, "encode"),
-  workRule: "the code's construction (Reed–Solomon 6·(n − k)², BCH (m·t)²/4, a matrix code 2·rows·n·⌈n/32⌉) + per message: 8·n for repetition, parity, Hamming, Golay and CRC, " +
-    "8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon (n in symbols).",
+  workRule: `the code's construction once, then each message. ${CODE_WORK_RULE}`,
   handler: (req) => {
     const messages = req.messages.map((m, i) => at(["messages", i], () => readWord(req.code, m)));
     const codes = resolveBatch(req.code, messages, "messages", () => 0);
