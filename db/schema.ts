@@ -102,6 +102,10 @@ export interface IdempotencyRecordTable {
   response_body: string | null;
   created_at: Timestamp;
   expires_at: Timestamp;
+  /** Random token of the request that holds a running record; only it may complete or release the record. */
+  holder: string | null;
+  /** When a running record counts as abandoned (its server stopped) and a retry may take it over. */
+  lease_expires_at: Timestamp | null;
 }
 
 export interface AuditLogTable {

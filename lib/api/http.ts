@@ -1,4 +1,3 @@
-import { randomBytes } from "node:crypto";
 import { getDb, type Db } from "@/db";
 import { InputError } from "@/lib/core/errors";
 import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
@@ -9,14 +8,11 @@ import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, type ProblemC
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
 import { consumeRate } from "./rate-limit";
+import { requestIdFor } from "./request-id";
 import { checkWork, unitsFor, workLimits } from "./work";
 
-const REQUEST_ID = /^[A-Za-z0-9._:-]{8,128}$/;
-
-export function requestIdFor(req: Request): string {
-  const given = req.headers.get("x-request-id");
-  return given && REQUEST_ID.test(given) ? given : `req_${randomBytes(12).toString("hex")}`;
-}
+// Route modules and the console guard take the request id from here, with the rest of the HTTP machinery.
+export { requestIdFor };
 
 function validationFailed(errors: { pointer: string; message: string }[]): ApiError {
   const first = errors[0];
@@ -114,7 +110,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       }
       const body = await res.clone().text();
       const keep = Object.fromEntries([...res.headers].filter(([k]) => k === "content-type" || k === "x-compute-units"));
-      await finishIdempotent(db, principal.orgId, idemKey, { status: res.status, headers: keep, body });
+      await finishIdempotent(db, principal.orgId, idemKey, outcome.holder, { status: res.status, headers: keep, body });
       for (const [k, v] of Object.entries(rateHeaders)) res.headers.set(k, v);
       return res;
     }
@@ -159,24 +155,3 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
   routeCache.set(spec, route);
   return route;
 }
-
-type RouteHandler = (req: Request) => Promise<Response>;
-
-/** The route module's exports for one path: its endpoints' handlers, and a 405 problem for every other method. */
-export function routes(...endpoints: Endpoint[]): Record<"GET" | "POST" | "PUT" | "PATCH" | "DELETE", RouteHandler> {
-  const allow = endpoints.map((e) => e.method).join(", ");
-  const notAllowed: RouteHandler = async (req) =>
-    problemResponse(new ApiError("method-not-allowed", `${req.method} is not allowed here; allowed: ${allow}.`, { headers: { allow } }), requestIdFor(req));
-  const byMethod = Object.fromEntries(endpoints.map((e) => [e.method, endpointRoute(e)]));
-  return {
-    GET: byMethod.GET ?? notAllowed,
-    POST: byMethod.POST ?? notAllowed,
-    PUT: notAllowed,
-    PATCH: notAllowed,
-    DELETE: byMethod.DELETE ?? notAllowed,
-  };
-}
-
-/** 404 problem for any path under /api/v1 that no endpoint has. */
-export const unknownRoute: RouteHandler = async (req) =>
-  problemResponse(new ApiError("not-found", `There is no endpoint ${new URL(req.url).pathname}. The API reference is at /docs.`), requestIdFor(req));

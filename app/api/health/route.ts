@@ -1,4 +1,4 @@
+import { methods } from "@/lib/api/methods";
+
 /** Liveness probe; also the constant-response baseline of the benchmark. */
-export function GET(): Response {
-  return Response.json({ ok: true });
-}
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ GET: () => Response.json({ ok: true }) });

@@ -1,4 +1,7 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, withSession } from "@/lib/auth/guard";
 import { endpointCatalogue } from "@/lib/console/account";
 
-export const GET = consoleRoute(withSession(async () => json({ endpoints: endpointCatalogue() })));
+const listEndpoints = consoleRoute(withSession(async () => json({ endpoints: endpointCatalogue() })));
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ GET: listEndpoints });

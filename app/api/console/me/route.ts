@@ -1,4 +1,7 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, withSession } from "@/lib/auth/guard";
 import { describeMe } from "@/lib/console/account";
 
-export const GET = consoleRoute(withSession(async (_req, { db, user }) => json(await describeMe(db, user))));
+const me = consoleRoute(withSession(async (_req, { db, user }) => json(await describeMe(db, user))));
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ GET: me });

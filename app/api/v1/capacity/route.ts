@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { capacity } from "@/lib/api/endpoints/capacity";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(capacity);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(capacity);

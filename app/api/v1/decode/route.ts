@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { decode } from "@/lib/api/endpoints/decode";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(decode);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(decode);

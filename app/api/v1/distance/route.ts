@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { distance } from "@/lib/api/endpoints/distance";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(distance);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(distance);

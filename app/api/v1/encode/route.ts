@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { encode } from "@/lib/api/endpoints/encode";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(encode);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(encode);

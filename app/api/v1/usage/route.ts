@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { usage } from "@/lib/api/endpoints/usage";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(usage);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(usage);

@@ -3,6 +3,7 @@ import { inTransaction } from "@/db";
 import { deleteVerificationTokens, setPassword, takeVerificationToken } from "@/db/queries/auth";
 import { findUserByEmail } from "@/db/queries/users";
 import { ApiError } from "@/lib/api/errors";
+import { methods } from "@/lib/api/methods";
 import { hashToken } from "@/lib/auth/adapter";
 import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
 import { hashPassword, passwordSchema } from "@/lib/auth/passwords";
@@ -10,7 +11,7 @@ import { hashPassword, passwordSchema } from "@/lib/auth/passwords";
 const resetConfirm = z.strictObject({ token: z.string().min(1).max(200), password: passwordSchema });
 
 /** POST /api/console/auth/reset-confirm {token, password} → 200; the link works once. */
-export const POST = consoleRoute(
+const confirmReset = consoleRoute(
   sameOrigin(async (req, { db }) => {
     const input = await readJson(req, resetConfirm);
     // bcrypt runs before the transaction, so that it does not hold the database.
@@ -28,3 +29,5 @@ export const POST = consoleRoute(
     return json({ next: "sign-in", detail: "The new password is set. Sign in with it." });
   }),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: confirmReset });

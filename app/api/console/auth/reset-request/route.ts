@@ -2,6 +2,7 @@ import { z } from "zod";
 import type { Db } from "@/db";
 import { insertVerificationToken } from "@/db/queries/auth";
 import { findUserByEmail } from "@/db/queries/users";
+import { methods } from "@/lib/api/methods";
 import { hashToken, newToken } from "@/lib/auth/adapter";
 import { clientIp, take, takeOrRefuse } from "@/lib/auth/brute-force";
 import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
@@ -34,7 +35,7 @@ async function mailResetLink(db: Db, address: string, origin: string): Promise<v
 }
 
 /** POST /api/console/auth/reset-request {email} → 202, the same body for every address. */
-export const POST = consoleRoute(
+const requestReset = consoleRoute(
   sameOrigin(async (req, { db, requestId }) => {
     await takeOrRefuse("reset:ip", clientIp(req.headers));
     const { email } = await readJson(req, resetRequest);
@@ -44,3 +45,5 @@ export const POST = consoleRoute(
     return json(RESET_REQUESTED, 202);
   }),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: requestReset });

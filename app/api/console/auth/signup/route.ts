@@ -2,6 +2,7 @@ import { z } from "zod";
 import { inTransaction } from "@/db";
 import { insertAuthUser, renewPendingSignUp } from "@/db/queries/auth";
 import { findUserByEmail } from "@/db/queries/users";
+import { methods } from "@/lib/api/methods";
 import { clientIp, takeOrRefuse } from "@/lib/auth/brute-force";
 import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
 import { hashPassword, passwordSchema } from "@/lib/auth/passwords";
@@ -22,7 +23,7 @@ const SIGN_UP_ACCEPTED = {
  * POST /api/console/auth/signup {name, email, password} → 202. A new address gets an account
  * whose password works once the address is confirmed; a taken address is left as it is.
  */
-export const POST = consoleRoute(
+const createAccount = consoleRoute(
   sameOrigin(async (req, { db }) => {
     await takeOrRefuse("signup:ip", clientIp(req.headers));
     const input = await readJson(req, signUp);
@@ -36,3 +37,5 @@ export const POST = consoleRoute(
     return json(SIGN_UP_ACCEPTED, 202);
   }),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: createAccount });

@@ -1,8 +1,9 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withSession } from "@/lib/auth/guard";
 import { acceptInput, acceptInvitation } from "@/lib/console/invitations";
 
 // Any signed-in user may try; the service checks that the invitation was sent to their address.
-export const POST = consoleRoute(
+const accept = consoleRoute(
   sameOrigin(
     withSession(async (req, { db, user }) => {
       const { token } = await readJson(req, acceptInput);
@@ -10,3 +11,5 @@ export const POST = consoleRoute(
     }),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: accept });

@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { bsc } from "@/lib/api/endpoints/bsc";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(bsc);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(bsc);

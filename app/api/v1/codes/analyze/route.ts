@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { analyze } from "@/lib/api/endpoints/analyze";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(analyze);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(analyze);

@@ -1,4 +1,4 @@
-import { routes } from "@/lib/api/http";
+import { routes } from "@/lib/api/methods";
 import { linkBer } from "@/lib/api/endpoints/links";
 
-export const { GET, POST, PUT, PATCH, DELETE } = routes(linkBer);
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = routes(linkBer);

@@ -1,7 +1,8 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
 import { inviteInput, inviteMember } from "@/lib/console/invitations";
 
-export const POST = consoleRoute(
+const invite = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner"], async (req, { db, org, caller, origin }) => {
@@ -11,3 +12,5 @@ export const POST = consoleRoute(
     ),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: invite });

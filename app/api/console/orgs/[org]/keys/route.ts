@@ -1,10 +1,11 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
 import { createOrgKey, listOrgKeys, newKeyInput } from "@/lib/console/keys";
 
 // Billing has no keys; the services narrow a developer to the keys they created.
-export const GET = consoleRoute(withSession(withOrgRole(["owner", "developer"], async (_req, { db, org, caller }) => json({ keys: await listOrgKeys(db, org, caller) }))));
+const listKeys = consoleRoute(withSession(withOrgRole(["owner", "developer"], async (_req, { db, org, caller }) => json({ keys: await listOrgKeys(db, org, caller) }))));
 
-export const POST = consoleRoute(
+const createKey = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner", "developer"], async (req, { db, org, caller }) => {
@@ -14,3 +15,5 @@ export const POST = consoleRoute(
     ),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ GET: listKeys, POST: createKey });

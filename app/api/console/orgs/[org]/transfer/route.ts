@@ -1,7 +1,8 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
 import { transferInput, transferOwnership } from "@/lib/console/members";
 
-export const POST = consoleRoute(
+const transfer = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner"], async (req, { db, org, caller }) => {
@@ -11,3 +12,5 @@ export const POST = consoleRoute(
     ),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: transfer });

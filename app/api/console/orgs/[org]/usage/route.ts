@@ -1,7 +1,8 @@
+import { methods } from "@/lib/api/methods";
 import { ANY_ROLE, consoleRoute, json, readQuery, withOrgRole, withSession } from "@/lib/auth/guard";
 import { loadUsage, resolvePeriod, summarise, usageCsv, usageQuery } from "@/lib/console/usage";
 
-export const GET = consoleRoute(
+const readUsage = consoleRoute(
   withSession(
     withOrgRole(ANY_ROLE, async (req, { db, org }) => {
       const q = readQuery(req, usageQuery);
@@ -17,3 +18,5 @@ export const GET = consoleRoute(
     }),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ GET: readUsage });

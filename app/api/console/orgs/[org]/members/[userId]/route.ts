@@ -1,7 +1,8 @@
+import { methods } from "@/lib/api/methods";
 import { ANY_ROLE, consoleRoute, idParam, json, readJson, readQuery, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
 import { changeRole, removeMember, removeQuery, roleChangeInput } from "@/lib/console/members";
 
-export const PATCH = consoleRoute(
+const changeMemberRole = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner"], async (req, ctx) => {
@@ -13,7 +14,7 @@ export const PATCH = consoleRoute(
 );
 
 // Every role gets this far: anyone may leave; removing someone else is the service's owner-only case.
-export const DELETE = consoleRoute(
+const removeMemberRoute = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(ANY_ROLE, async (req, ctx) => {
@@ -23,3 +24,5 @@ export const DELETE = consoleRoute(
     ),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ PATCH: changeMemberRole, DELETE: removeMemberRoute });

@@ -1,7 +1,8 @@
+import { methods } from "@/lib/api/methods";
 import { consoleRoute, idParam, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
 import { rotateInput, rotateOrgKey } from "@/lib/console/keys";
 
-export const POST = consoleRoute(
+const rotate = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner", "developer"], async (req, ctx) => {
@@ -11,3 +12,5 @@ export const POST = consoleRoute(
     ),
   ),
 );
+
+export const { GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS } = methods({ POST: rotate });
