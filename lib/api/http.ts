@@ -28,7 +28,7 @@ function readInput(req: Request, bodyText: string, method: Method): unknown {
   return parseJsonBody(req, bodyText);
 }
 
-/** What the pool's refusal means to the caller, and what the call is charged for it. */
+/** What the pool's refusal means to the caller (metered at 0 units, like every refusal). */
 function poolProblem(r: PoolRefusal): ApiError {
   if (r.reason === "busy") {
     return new ApiError("server-busy", "Every compute worker is busy and the queue is full; retry in a few seconds.", { headers: { "retry-after": "2" } });
@@ -130,11 +130,8 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       try {
         json = await runCompute(spec, input, work);
       } catch (e) {
-        // Work stopped at a deadline or the memory ceiling was done up to there: it is charged as estimated.
-        if (e instanceof PoolRefusal) {
-          if (e.reason !== "busy") charge(units);
-          throw poolProblem(e);
-        }
+        // A computation the pool stopped or could not take is refused like any other: 0 units.
+        if (e instanceof PoolRefusal) throw poolProblem(e);
         throw e;
       }
     } else {

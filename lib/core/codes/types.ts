@@ -75,4 +75,9 @@ export interface BlockCode {
   supportsErasures: boolean;
   /** Binary linear codes: a k × n generator matrix (rows), systematic where the family is. */
   generatorRows?(): Bits[];
+  /**
+   * Families with a closed form: A_0..A_n, the number of codewords of each weight, exact. Analysis uses it
+   * instead of enumerating codewords, so no generator matrix is built for it.
+   */
+  weightDistribution?(): bigint[];
 }
