@@ -1,7 +1,7 @@
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-openapi";
 import { z } from "zod";
 import { MAX_BODY_BYTES } from "@/lib/api/body";
-import { problemSchema, problemTypes, type ProblemCode } from "@/lib/api/errors";
+import { problemSchema, problemTypes, problemTypeUri, type ProblemCode } from "@/lib/api/errors";
 import { IDEMPOTENCY_KEY_PATTERN, IDEMPOTENCY_TTL_MS } from "@/lib/api/idempotency";
 import { RATE_WINDOW_SECONDS } from "@/lib/api/rate-limit";
 import { endpoints } from "@/lib/api/registry";
@@ -14,17 +14,17 @@ const rateHeaders = {
   "X-Request-Id": { description: "Identifies this request in logs and usage rows.", schema: { type: "string" as const } },
 };
 
-function problem(code: ProblemCode) {
-  const t = problemTypes[code];
+/** The problems one status can carry: the headers they come with, and each type explained. */
+function problem(...codes: ProblemCode[]) {
   // A 401 comes before the key is known, so it has no rate-limit window to report.
-  const headers =
-    code === "unauthenticated"
-      ? { "X-Request-Id": rateHeaders["X-Request-Id"] }
-      : code === "rate-limited"
-        ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } }
-        : rateHeaders;
+  const headers = codes.includes("unauthenticated")
+    ? { "X-Request-Id": rateHeaders["X-Request-Id"] }
+    : codes.some((c) => c === "rate-limited" || c === "server-busy")
+      ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } }
+      : rateHeaders;
+  const explain = (c: ProblemCode) => `${problemTypes[c].title}. ${problemTypes[c].help}`;
   return {
-    description: `${t.title}. ${t.help}`,
+    description: codes.length === 1 ? explain(codes[0]!) : codes.map((c) => `\`${problemTypeUri(c)}\`: ${explain(c)}`).join("\n\n"),
     headers,
     content: { "application/problem+json": { schema: problemSchema } },
   };
@@ -42,6 +42,7 @@ export function buildOpenApiDocument() {
   for (const e of endpoints) {
     const examples = Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: ex.value }]));
     const isGet = e.method === "GET";
+    const compute = e.kind === "compute";
     registry.registerPath({
       method: e.method.toLowerCase() as "get" | "post" | "delete",
       path: e.path,
@@ -77,8 +78,9 @@ export function buildOpenApiDocument() {
         ...(isGet ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
         401: problem("unauthenticated"),
         403: problem("forbidden"),
-        422: problem("validation-failed"),
+        422: isGet ? problem("validation-failed") : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : [])),
         429: problem("rate-limited"),
+        ...(compute ? { 503: problem("server-busy") } : {}),
       },
     });
   }

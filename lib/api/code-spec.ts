@@ -40,7 +40,7 @@ const hexOrInt = (what: string, name: string, nonZero = false) => {
 /** A field polynomial of degree m: from 2^m to 2^(m+1) − 1, as an integer or hex (leading digit by m mod 4). */
 const degree = (m: number): JsonSchema => ({
   anyOf: [
-    { type: "string", pattern: `^(0x)?0*${["1", "[23]", "[4-7]", "[89a-fA-F]"][m % 4]}${"[0-9a-fA-F]".repeat(Math.floor(m / 4))}$` },
+    { type: "string", pattern: `^(0x)?0*${["1", "[23]", "[4-7]", "[89a-fA-F]"][m % 4]}${m >= 4 ? `[0-9a-fA-F]{${Math.floor(m / 4)}}` : ""}$` },
     { type: "integer", minimum: 2 ** m, maximum: 2 ** (m + 1) - 1 },
   ],
 });
@@ -69,7 +69,7 @@ const golay = z
   .strictObject({ family: z.literal("golay"), extended: z.boolean().default(false).meta({ description: "false: (23,12), perfect, t = 3; true: (24,12)." }) })
   .meta({ id: "GolayCode" });
 
-const matrixRow = bitsOf(MAX_MATRIX_N, "MatrixRow");
+const matrixRow = bitsOf(MAX_MATRIX_N, "MatrixRow", true);
 const rows = "rows of one length n (at most 4096 bits), linearly independent";
 
 const linear = documentRules(

@@ -28,33 +28,46 @@ export const atLeastOneOf = (...names: string[]) => ({ anyOf: names.map((n) => (
 // What parseBits accepts; it names the first bad character itself, so the patterns are stated, not checked twice.
 const BIT_STRING = "^[01 _]*$";
 const HEX_STRING = "^(0[xX])?[0-9a-fA-F _]*$";
+// The same with at least one bit (one digit).
+const SOME_BITS = "^[ _]*[01][01 _]*$";
+const SOME_HEX = "^(0[xX])?[ _]*[0-9a-fA-F][0-9a-fA-F _]*$";
 
-/** A binary word of at most `maxBits` bits, named `id` in the document. */
-export function bitsOf(maxBits: number, id: string) {
+/** A binary word of at most `maxBits` bits (and, with `nonEmpty`, at least one), named `id` in the document. */
+export function bitsOf(maxBits: number, id: string, nonEmpty = false) {
   return z
     .union([
       z
         .string()
         .max(2 * maxBits)
-        .meta({ description: "0/1 characters; spaces and underscores separate groups.", pattern: BIT_STRING, example: "1011 0010" }),
-      z.array(z.number().int().min(0).max(1)).max(maxBits).meta({ description: "One number per bit.", example: [1, 0, 1, 1] }),
+        .meta({ description: "0/1 characters; spaces and underscores separate groups.", pattern: nonEmpty ? SOME_BITS : BIT_STRING, example: "1011 0010" }),
+      z
+        .array(z.number().int().min(0).max(1))
+        .max(maxBits)
+        .meta({ description: "One number per bit.", example: [1, 0, 1, 1], ...(nonEmpty ? { minItems: 1 } : {}) }),
       z
         .strictObject({
           hex: z
             .string()
             .max(maxBits / 4 + 2)
-            .meta({ description: "Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.", pattern: HEX_STRING, example: "b2" }),
+            .meta({
+              description: "Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.",
+              pattern: nonEmpty ? SOME_HEX : HEX_STRING,
+              example: "b2",
+            }),
           length: z
             .number()
             .int()
             .min(0)
             .max(maxBits)
             .optional()
-            .meta({ description: "Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit)." }),
+            .meta({
+              description: "Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit).",
+              ...(nonEmpty ? { minimum: 1 } : {}),
+            }),
         })
         .meta({ description: "Hex with an optional bit length." }),
     ])
-    .meta({ id, description: `A binary word, at most ${maxBits} bits: a 0/1 string, an array of 0/1, or hex.` });
+    .meta({ id, description: `A binary word, ${nonEmpty ? "1 to" : "at most"} ${maxBits} bits: a 0/1 string, an array of 0/1, or hex.` });
 }
 
 export const bitsInput = bitsOf(MAX_WORD_BITS, "Bits");

@@ -13,7 +13,7 @@ export interface paths {
          * A code's parameters: weight distribution, minimum distance, bounds, matrices
          * @description n, k, rate, minimum distance, t, detection capability, sphere volume, the weight distribution (enumerated for k ≤ 24, from the dual by the MacWilliams identity for n − k ≤ 24, closed form for Reed–Solomon), Hamming, Singleton, Gilbert–Varshamov, Plotkin and Griesmer bounds with whether the code meets each, perfect and MDS flags, the undetected-error probability on a BSC, and systematic generator and parity-check matrices. A binary code with both k and n − k above 24 is refused (422).
          *
-         *     **Work and cost.** building the code (for Reed–Solomon 6·(n − k)², for BCH (m·t)²/4) + enumeration 4·2^min(k, n−k)·⌈n/32⌉ (+ 2·k·n·⌈n/32⌉ + 4·(n+1)²·⌈n/64⌉ through the dual) or the closed form (repetition and parity 4·n·⌈n/64⌉; Reed–Solomon 2·k²·⌈(k·m + n)/64⌉ when the weight distribution is asked for) + 8·n·⌈n/64⌉ for the bounds + 4·k·n·⌈n/32⌉ for the matrices. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** building the code (as for /encode: for Reed–Solomon 8·2^m + 6·(n − k)², for BCH 8·2^m + (m·t)²/4) + enumeration 4·2^min(k, n−k)·⌈n/32⌉ (+ 2·k·n·⌈n/32⌉ + 4·(n+1)²·⌈n/64⌉ through the dual) or the closed form (repetition and parity 4·n·⌈n/64⌉ when the weight distribution or `p` is asked for; Reed–Solomon 2·k²·⌈(k·m + n)/64⌉ + 4·n·⌈n/64⌉ when the weight distribution is asked for) + 8·k·n to read the generator + for binary codes the bounds 8·min(n, 2^(n−k))·⌈(n−k+1)/64⌉ + 8·(t+1)·⌈n/64⌉ (t from the family's distance, else ⌊(n−k)/2⌋) and 4·k·n·⌈n/32⌉ for matrices that are returned; for Reed–Solomon the sphere volume 4·t·⌈(t·m + n)/64⌉ (64·t when only its log2 is given, beyond 2^16 bits). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -37,7 +37,7 @@ export interface paths {
          * Encode messages with any supported block code, bit-exact
          * @description A batch of up to 1024 messages (at most 4194304 codeword bits in all). Systematic encoders put the message first; `code.bitOrder` in the response states each family's order exactly.
          *
-         *     **Work and cost.** the code's construction (Reed–Solomon 6·(n − k)², BCH (m·t)²/4, a matrix code 2·rows·n·⌈n/32⌉) + per message: 8·n for repetition, parity, Hamming, Golay and CRC, 8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon (n in symbols). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** the code's construction once, then each message. Building the code: 64 for repetition, 64 + 32·n for parity, 8·2^r for Hamming, 2^16 for Golay, 4,096 for CRC, 2·rows·n·⌈n/32⌉ + 8·rows·n for a matrix code, 8·2^m + (m·t)²/4 for BCH, 8·2^m + 6·(n − k)² for Reed–Solomon. Per word encoded: 64 + 8·n for repetition, parity and Hamming, 256 for Golay, 64 + 8·(bits + width) for CRC, 8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon. Decoding adds, for a matrix code, its minimum distance 4·min(2^min(k, n−k)·⌈n/32⌉, 2^28) and, when n − k ≤ 20, its syndrome table 4·min(2^(n−k)·n, 2^26); per word decoded: 64 + 8·n for repetition and parity, 64 + 16·n for Hamming, 4,096 for Golay, 64 + 8·(bits + width) for CRC, 8·(n − k)·⌈n/32⌉ + 16·n for a matrix code (+ 4·2^22·⌈(n − k)/32⌉ when n − k > 20: the pattern search), 6·n·t + 4·t² + 16·n for BCH, 12·n·(n − k) + 6·(n − k)² + 16·n for Reed–Solomon. n and k in symbols for Reed–Solomon; a word's bits as sent (a `text` character counts 24). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -59,9 +59,9 @@ export interface paths {
         put?: never;
         /**
          * Decode received words: message, corrections, syndrome and a failure flag
-         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch). Cost: 1 unit per started 16,384 codeword bits.
+         * @description Hard-decision decoding of up to 1024 words (at most 4194304 bits in all), with erasures where the family supports them. Each result reports the message, the corrected codeword, the corrected positions, the syndrome and `failure` whenever the decoder can tell it did not decode (more errors than it corrects, a majority tie, a CRC mismatch).
          *
-         *     **Work and cost.** undefined A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** the code's construction once, then each word. Building the code: 64 for repetition, 64 + 32·n for parity, 8·2^r for Hamming, 2^16 for Golay, 4,096 for CRC, 2·rows·n·⌈n/32⌉ + 8·rows·n for a matrix code, 8·2^m + (m·t)²/4 for BCH, 8·2^m + 6·(n − k)² for Reed–Solomon. Per word encoded: 64 + 8·n for repetition, parity and Hamming, 256 for Golay, 64 + 8·(bits + width) for CRC, 8·k·⌈n/32⌉ + 16·n for a matrix code, n·(n − k)/32 + 16·n for BCH, 8·k·(n − k) + 16·n for Reed–Solomon. Decoding adds, for a matrix code, its minimum distance 4·min(2^min(k, n−k)·⌈n/32⌉, 2^28) and, when n − k ≤ 20, its syndrome table 4·min(2^(n−k)·n, 2^26); per word decoded: 64 + 8·n for repetition and parity, 64 + 16·n for Hamming, 4,096 for Golay, 64 + 8·(bits + width) for CRC, 8·(n − k)·⌈n/32⌉ + 16·n for a matrix code (+ 4·2^22·⌈(n − k)/32⌉ when n − k > 20: the pattern search), 6·n·t + 4·t² + 16·n for BCH, 12·n·(n − k) + 6·(n − k)² + 16·n for Reed–Solomon. n and k in symbols for Reed–Solomon; a word's bits as sent (a `text` character counts 24). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -412,7 +412,7 @@ export interface components {
             /** @description Parity-check matrix H: n − k rows of one length n (at most 4096 bits), linearly independent. */
             parityCheck?: components["schemas"]["MatrixRow"][];
         } & (unknown | unknown);
-        /** @description A binary word, at most 4096 bits: a 0/1 string, an array of 0/1, or hex. */
+        /** @description A binary word, 1 to 4096 bits: a 0/1 string, an array of 0/1, or hex. */
         MatrixRow: string | number[] | {
             /**
              * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
@@ -1027,7 +1027,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1044,6 +1054,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1181,7 +1208,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1198,6 +1235,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1335,7 +1389,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1352,6 +1416,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1489,7 +1570,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1506,6 +1597,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1643,7 +1751,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1660,6 +1778,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1797,7 +1932,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1814,6 +1959,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
@@ -1951,7 +2113,17 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1968,6 +2140,23 @@ export interface operations {
             };
             /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;

@@ -11,6 +11,9 @@
  * Schema 2020-12) or an application/problem+json with type, title, status and detail, valid against
  * the Problem schema, whose validation failures list `errors` with JSON pointers that lead into the
  * request. A request the document refuses must not be answered with a 2xx.
+ *
+ * A longer run: PARITAS_FUZZ_VALID=600 PARITAS_FUZZ_MUTATED=1500 (per operation), another PARITAS_FUZZ_SEED,
+ * and PARITAS_FUZZ_REPORT=1 to print how many answers of each status every kind of request got.
  */
 import type { Server } from "node:http";
 import fc from "fast-check";
@@ -28,8 +31,8 @@ const limits: Limits = {
   maxLength: 24,
 };
 /** Requests per POST operation: generated valid bodies, then mutations of those and of the examples. */
-const VALID = Number(process.env.FUZZ_VALID ?? 100);
-const MUTATED = Number(process.env.FUZZ_MUTATED ?? 220);
+const VALID = Number(process.env.PARITAS_FUZZ_VALID ?? 100);
+const MUTATED = Number(process.env.PARITAS_FUZZ_MUTATED ?? 220);
 /** Calls per key, below the 600 a minute the rate limiter allows. */
 const CALLS_PER_KEY = 400;
 
@@ -110,6 +113,8 @@ function problemsWith(op: Operation, sent: Sent, res: Response): string[] {
   const body = JSON.parse(res.text) as Record<string, Json>;
   for (const f of ["type", "title", "detail"]) if (typeof body[f] !== "string" || body[f] === "") out.push(`problem without ${f}`);
   if (body.status !== res.status) out.push(`problem status ${String(body.status)} on a ${res.status}`);
+  // Each problem a status can carry is named, with its title, in that response's description.
+  if (documented(op, res.status) && !op.responses[String(res.status)]!.description.includes(String(body.title))) out.push(`problem ${String(body.type)} is not documented for ${res.status}`);
   // A replay is the stored answer, instance and all; X-Request-Id names the request that got it.
   if (body.instance !== requestId && res.headers["idempotency-replayed"] !== "true") out.push("problem instance is not the request id");
   const problem = v.at("/components/schemas/Problem");
@@ -199,7 +204,7 @@ function parses(text: string): boolean {
 const examplesOf = (op: Operation): Json[] => Object.values(op.requestBody?.content["application/json"]?.examples ?? {}).map((e) => e.value);
 
 /** Seeds per operation, so that adding an operation does not change what the others get. */
-const seedOf = (id: string) => [...id].reduce((h, c) => (h * 31 + c.charCodeAt(0)) >>> 0, Number(process.env.FUZZ_SEED ?? 20261203));
+const seedOf = (id: string) => [...id].reduce((h, c) => (h * 31 + c.charCodeAt(0)) >>> 0, Number(process.env.PARITAS_FUZZ_SEED ?? 20261203));
 
 async function fuzzPost(op: Operation): Promise<{ failures: string[]; statuses: Record<string, number> }> {
   const failures: string[] = [];

@@ -139,6 +139,8 @@ const cases: [string, string, unknown, boolean][] = [
   ["CRC poly 0x00", "/codes/analyze", { code: { family: "crc", width: 8, poly: "0x00" }, crcMessageBits: 8 }, false],
   ["an unknown CRC preset", "/codes/analyze", { code: { family: "crc", preset: "CRC-99/NOPE" }, crcMessageBits: 8 }, false],
   ["a linear code with both matrices", "/codes/analyze", { code: { family: "linear", generator: ["11"], parityCheck: ["11"] } }, false],
+  ["a linear code with an empty row", "/codes/analyze", { code: { family: "linear", generator: ["_"] } }, false],
+  ["a linear code with a row in hex", "/codes/analyze", { code: { family: "linear", generator: [{ hex: "e" }] } }, true],
   // Words per family.
   ["a {text} message for CRC", "/encode", { code: { family: "crc", preset: "CRC-8" }, messages: [{ text: "abc" }] }, true],
   ["a {text} message for Hamming", "/encode", { code: { family: "hamming", r: 3 }, messages: [{ text: "abc" }] }, false],

@@ -12,7 +12,7 @@ export interface Operation {
   operationId: string;
   parameters?: { name: string; in: string; required?: boolean; schema: SchemaObject; examples?: Record<string, { value: Json }> }[];
   requestBody?: { content: Record<string, { schema: SchemaObject; examples?: Record<string, { value: Json }> }> };
-  responses: Record<string, { content?: Record<string, { schema: SchemaObject }> }>;
+  responses: Record<string, { description: string; content?: Record<string, { schema: SchemaObject }> }>;
   security?: unknown[];
 }
 
