@@ -112,7 +112,9 @@ try {
   const heavy = await Promise.all(load);
   console.log(`\nA cheap call (POST /api/v1/distance, one connection) alone and while each endpoint's heaviest allowed request loops on its own connection, ${seconds} s`);
   console.table({ [alone.title!]: row(alone), [loaded.title!]: row(loaded) });
-  console.table(Object.fromEntries(heavy.map((h) => [h.title!, { "req/s": Math.round(h.requests.average * 10) / 10, "p50 ms": h.latency.p50, "p99 ms": h.latency.p99, "2xx": h["2xx"], non2xx: h.non2xx }])));
+  console.table(
+    Object.fromEntries(heavy.map((h) => [h.title!, { "req/s": Math.round(h.requests.average * 10) / 10, "p50 ms": h.latency.p50, "p99 ms": h.latency.p99, "2xx": h["2xx"], non2xx: h.non2xx, "timeouts (10 s)": h.timeouts }])),
+  );
   console.log(`ratio loaded / alone: p50 latency ${(loaded.latency.p50 / Math.max(alone.latency.p50, 0.001)).toFixed(2)}×, p99 latency ${(loaded.latency.p99 / Math.max(alone.latency.p99, 0.001)).toFixed(2)}× (aim: p99 within 2×)`);
 } finally {
   try {

@@ -41,8 +41,11 @@ export const poolLimits = {
   deadlineMs: envInt("PARITAS_TASK_DEADLINE_MS", 15_000),
   /** V8 heap ceiling of each worker, MiB (PARITAS_TASK_MEMORY_MB). */
   memoryMb: envInt("PARITAS_TASK_MEMORY_MB", 512),
-  /** Threads of the request lane: one per core. */
-  requestThreads: envInt("PARITAS_POOL_THREADS", cores),
+  /**
+   * Threads of the request lane: one per core but one, at least one. The event loop keeps a core for the cheap
+   * requests: with every core computing, a cheap call's p99 tripled under load (npm run bench); with one left, it held.
+   */
+  requestThreads: envInt("PARITAS_POOL_THREADS", Math.max(1, cores - 1)),
   /** Threads of the batch lane: one per core but one, at least one. */
   batchThreads: envInt("PARITAS_BATCH_THREADS", Math.max(1, cores - 1)),
   /** Tasks that may wait per request-lane thread before the lane answers busy. */

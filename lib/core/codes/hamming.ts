@@ -116,6 +116,9 @@ function wordTable(n: number, decode: (w: Bits) => DecodeResult): Int32Array {
   return table;
 }
 
+const LITTLE_ENDIAN = new Uint8Array(Uint32Array.of(1).buffer)[0] === 1;
+const swap32 = (x: number) => ((x & 0xff) << 24) | ((x & 0xff00) << 8) | ((x >>> 8) & 0xff00) | (x >>> 24);
+
 /** decodeBatch's arrays while a kernel fills them (DecodeBatchResult without the reason). */
 interface BatchOut {
   messages: Bits;
@@ -152,7 +155,9 @@ function decodeRun3(table: Int32Array, n: number, src: Bits, count: number, out:
   const { syndromes, corrected, failures } = out;
   const sv = byteView(src);
   const cv = byteView(out.codewords);
-  const mv = byteView(out.messages);
+  // The messages start 4-byte aligned (batchOut) and take 4 bytes a word: whole 32-bit stores, in the platform's order.
+  const mv = new Uint32Array(out.messages.buffer, out.messages.byteOffset, count);
+  const little = LITTLE_ENDIAN;
   const shift = n - 4; // where the second read starts; its last `shift` bits are new
   const low = (1 << shift) - 1;
   let seen = 0;
@@ -162,7 +167,7 @@ function decodeRun3(table: Int32Array, n: number, src: Bits, count: number, out:
     seen |= a | b;
     const e = table[(nibble(a) << shift) | (nibble(b) & low)]!;
     const head = SPREAD[(e >>> shift) & 15]!;
-    mv.setUint32(4 * i, head, true);
+    mv[i] = little ? head : swap32(head);
     cv.setUint32(f, head, true);
     cv.setUint32(f + shift, SPREAD[e & 15]!, true);
     syndromes[i] = (e >>> 8) & 15;
