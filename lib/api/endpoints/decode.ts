@@ -27,12 +27,14 @@ function decodeTogether(code: BlockCode, words: Word[]): DecodeResult[] | undefi
     if (e instanceof InputError) return undefined;
     throw e;
   }
-  const { messages, codewords, corrected, syndromes, failures } = d;
-  return words.map((_, i) => {
+  const { messages, corrected, syndromes, failures } = d;
+  return words.map((w, i) => {
     const reason = d.reason(i);
+    const codeword = w.slice();
+    if (corrected[i]! >= 0) codeword[corrected[i]!]! ^= 1;
     return {
       message: messages.subarray(i * k, (i + 1) * k),
-      codeword: codewords.subarray(i * n, (i + 1) * n),
+      codeword,
       correctedPositions: corrected[i]! < 0 ? [] : [corrected[i]!],
       // The syndrome integer's bit n − k − 1 − j is entry j.
       syndrome: Uint8Array.from({ length: n - k }, (_, j) => (syndromes[i]! >>> (n - k - 1 - j)) & 1),

@@ -99,7 +99,7 @@ const wordTables = new Map<number, Int32Array>();
 
 /**
  * r = 3 (n = 7 or 8): table[v] packs what `decode` answers for the received word v (bit n − 1 − p = position p):
- * the corrected codeword in bits 0..7 (same order), the syndrome integer in bits 8..11, 1 + the corrected
+ * the message in bits 0..3 (bit 3 = position 0), the syndrome integer in bits 8..11, 1 + the corrected
  * position in bits 12..15 (0: none) and failure in bit 16. Made by decoding all 2^n words once.
  */
 function wordTable(n: number, decode: (w: Bits) => DecodeResult): Int32Array {
@@ -110,7 +110,7 @@ function wordTable(n: number, decode: (w: Bits) => DecodeResult): Int32Array {
   for (let v = 0; v < 1 << n; v++) {
     const d = decode(Uint8Array.from({ length: n }, (_, p) => (v >>> (n - 1 - p)) & 1));
     const at = d.correctedPositions.length === 1 ? 1 + d.correctedPositions[0]! : 0;
-    table[v] = toInt(d.codeword) | (toInt(d.syndrome) << 8) | (at << 12) | (Number(d.failure) << 16);
+    table[v] = toInt(d.message) | (toInt(d.syndrome) << 8) | (at << 12) | (Number(d.failure) << 16);
   }
   wordTables.set(n, table);
   return table;
@@ -122,24 +122,25 @@ const swap32 = (x: number) => ((x & 0xff) << 24) | ((x & 0xff00) << 8) | ((x >>>
 /** decodeBatch's arrays while a kernel fills them (DecodeBatchResult without the reason). */
 interface BatchOut {
   messages: Bits;
-  codewords: Bits;
   corrected: Int32Array;
   syndromes: Int32Array;
   failures: Uint8Array;
 }
 
 /**
- * The arrays of a batch of `count` words, as views over one zeroed buffer (one allocation instead of five):
- * syndromes and corrected (4 bytes a word, first so that they are aligned), then messages, codewords, failures.
+ * The arrays of a batch of `count` words, as views over one zeroed buffer (one allocation instead of four):
+ * syndromes and corrected (4 bytes a word, first so that they are aligned), then messages and failures.
+ * Fresh memory is a batch's largest cost after the kernel (a third of the time when the codewords were stored
+ * too: page faults on memory the allocator had given back), so nothing is stored that the received words and
+ * `corrected` already say: the corrected codewords are the received words with one bit flipped.
  */
-function batchOut(count: number, k: number, n: number): BatchOut {
-  const buffer = new ArrayBuffer(count * (8 + k + n + 1));
+function batchOut(count: number, k: number): BatchOut {
+  const buffer = new ArrayBuffer(count * (8 + k + 1));
   return {
     syndromes: new Int32Array(buffer, 0, count),
     corrected: new Int32Array(buffer, 4 * count, count),
     messages: new Uint8Array(buffer, 8 * count, count * k),
-    codewords: new Uint8Array(buffer, count * (8 + k), count * n),
-    failures: new Uint8Array(buffer, count * (8 + k + n), count),
+    failures: new Uint8Array(buffer, count * (8 + k), count),
   };
 }
 
@@ -147,14 +148,13 @@ const DOUBLE_ERROR = "double error detected (non-zero syndrome, even overall par
 
 /**
  * decodeBatch for r = 3 (n = 7 or 8): one wordTable lookup per word. The word is read as two overlapping 32-bit
- * words (positions 0..3 and n − 4..n − 1) and gathered into an n-bit integer; its table entry gives the corrected
- * codeword, written back as two 32-bit words (the first, positions 0..3, also being the message), the syndrome,
- * the correction and the failure flag. No allocation per word. Returns the OR of what it read.
+ * words (positions 0..3 and n − 4..n − 1) and gathered into an n-bit integer; its table entry gives the message,
+ * written as one 32-bit word, the syndrome, the correction and the failure flag. No allocation per word.
+ * Returns the OR of what it read.
  */
 function decodeRun3(table: Int32Array, n: number, src: Bits, count: number, out: BatchOut): number {
   const { syndromes, corrected, failures } = out;
   const sv = byteView(src);
-  const cv = byteView(out.codewords);
   // The messages start 4-byte aligned (batchOut) and take 4 bytes a word: whole 32-bit stores, in the platform's order.
   const mv = new Uint32Array(out.messages.buffer, out.messages.byteOffset, count);
   const little = LITTLE_ENDIAN;
@@ -166,10 +166,8 @@ function decodeRun3(table: Int32Array, n: number, src: Bits, count: number, out:
     const b = sv.getUint32(f + shift, true);
     seen |= a | b;
     const e = table[(nibble(a) << shift) | (nibble(b) & low)]!;
-    const head = SPREAD[(e >>> shift) & 15]!;
+    const head = SPREAD[e & 15]!;
     mv[i] = little ? head : swap32(head);
-    cv.setUint32(f, head, true);
-    cv.setUint32(f + shift, SPREAD[e & 15]!, true);
     syndromes[i] = (e >>> 8) & 15;
     corrected[i] = ((e >>> 12) & 15) - 1;
     // Only the extended (8,4) code can fail: the plain code's flags stay 0 from the allocation.
@@ -318,12 +316,12 @@ export function hamming(r: number, extended = false): BlockCode {
 
   /**
    * Any r: the syndromes column by column over the batch so that the inner loops are long and branch-free (four
-   * positions at a time through the syndrome nibble table, the last n mod 4 one at a time), then per word the
-   * correction its syndrome names, then the messages copied out of the corrected codewords four bits at a time.
+   * positions at a time through the syndrome nibble table, the last n mod 4 one at a time), then the messages
+   * copied out of the received words four bits at a time, then per word the correction its syndrome names.
    */
   const decodeRun = (src: Bits, count: number, out: BatchOut): number => {
     const table = syndromeTable(share);
-    const { messages, codewords, syndromes, corrected, failures } = out;
+    const { messages, syndromes, corrected, failures } = out;
     const sv = byteView(src);
     let seen = 0;
     let p = 0;
@@ -343,7 +341,14 @@ export function hamming(r: number, extended = false): BlockCode {
         syndromes[i]! ^= -(bit & 1) & one;
       }
     }
-    codewords.set(src);
+    const mv = byteView(messages);
+    let q = 0;
+    for (; q + 4 <= k; q += 4) {
+      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) mv.setUint32(t, sv.getUint32(f, true), true);
+    }
+    for (; q < k; q++) {
+      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) messages[t] = src[f]!;
+    }
     for (let i = 0; i < count; i++) {
       const s = syndromes[i]!;
       let at = -1;
@@ -355,17 +360,8 @@ export function hamming(r: number, extended = false): BlockCode {
       } else if (s !== 0) {
         failures[i] = 1;
       }
-      if (at >= 0) codewords[i * n + at]! ^= 1;
+      if (at >= 0 && at < k) messages[i * k + at]! ^= 1;
       corrected[i] = at;
-    }
-    const cv = byteView(codewords);
-    const mv = byteView(messages);
-    let q = 0;
-    for (; q + 4 <= k; q += 4) {
-      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) mv.setUint32(t, cv.getUint32(f, true), true);
-    }
-    for (; q < k; q++) {
-      for (let i = 0, f = q, t = q; i < count; i++, f += n, t += k) messages[t] = codewords[f]!;
     }
     return seen;
   };
@@ -399,11 +395,11 @@ export function hamming(r: number, extended = false): BlockCode {
     },
     decodeBatch(received: Word, count: number): DecodeBatchResult {
       const w = checkBinaryBatch(received, count, n, name, "received", "words");
-      const out = batchOut(count, k, n);
+      const out = batchOut(count, k);
       // Checked after the loops so that they stay branch-free; a non-bit only spoils a result that is thrown away.
       if ((r === 3 ? decodeRun3(wordTable(n, decode), n, w, count, out) : decodeRun(w, count, out)) & NON_BITS) throw firstNonBit(w, n, "received", "received word");
-      const { messages, codewords, corrected, syndromes, failures } = out;
-      return { messages, codewords, corrected, syndromes, failures, reason: (i) => (failures[i] ? DOUBLE_ERROR : undefined) };
+      const { messages, corrected, syndromes, failures } = out;
+      return { messages, corrected, syndromes, failures, reason: (i) => (failures[i] ? DOUBLE_ERROR : undefined) };
     },
   };
   if (n <= MAX_GENERATOR_N) {

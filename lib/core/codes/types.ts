@@ -22,12 +22,11 @@ export interface DecodeResult {
 /**
  * What a batch decoder says about `count` received words (BlockCode.decodeBatch), word i being the i-th
  * word of the batch: the same as `decode` one word at a time, in flat arrays (views that may share one buffer).
+ * DecodeResult.codeword is not repeated: it is received word i with position corrected[i] flipped, if any.
  */
 export interface DecodeBatchResult {
   /** count·k entries: word i's DecodeResult.message at i·k. */
   messages: Word;
-  /** count·n entries: word i's DecodeResult.codeword at i·n. */
-  codewords: Word;
   /** Per word, the one position in DecodeResult.correctedPositions, or −1 when it is empty: only codes that change at most one position per word offer decodeBatch. */
   corrected: Int32Array;
   /** Per word, the syndrome as an integer: entry j of DecodeResult.syndrome (n − k bits) is bit n − k − 1 − j, so only binary codes with n − k ≤ 31 offer decodeBatch. */
