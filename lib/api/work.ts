@@ -40,7 +40,7 @@ export function checkWork(work: number, advice: string): void {
 /** The reference's paragraph on an endpoint's work rule and the cost it implies. */
 export function describeWork(rule: string): string {
   return (
-    `**Work and cost.** ${rule} A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; ` +
+    `**Work and cost.** ${rule.charAt(0).toUpperCase()}${rule.slice(1)} A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; ` +
     `one beyond 2^32 is refused (422 \`work-limit\`) before anything is computed, naming the quantity and the nearest allowed request. ` +
     `Cost: 1 compute unit per started 2^22 work units, at least 1 (\`X-Compute-Units\`).`
   );

@@ -38,6 +38,14 @@ function exampleBody(code: ProblemCode): string {
   if (code === "validation-failed") {
     body.errors = [{ pointer: "/p", message: "Expected a probability between 0 and 1" }];
   }
+  // The limit problems carry the `limit` member that problemResponse() adds for them.
+  if (code === "work-limit") {
+    body.detail = "Decoding 64 words (t = 4000 over n = 65535) would need 1.06e11 work units; one call allows 4.29e9. This code allows at most 1 word per call; split the batch.";
+    body.errors = [{ pointer: "/words", message: body.detail }];
+    body.limit = { quantity: "Decoding 64 words (t = 4000 over n = 65535)", requested: 106_000_000_000, allowed: 2 ** 32, unit: "work units" };
+  }
+  if (code === "deadline-exceeded") body.limit = { quantity: "time", allowed: 15000, unit: "ms" };
+  if (code === "memory-limit") body.limit = { quantity: "memory", allowed: 512, unit: "MiB" };
   return JSON.stringify(body, null, 2);
 }
 
