@@ -119,9 +119,23 @@ const crc = documentRules(
       width: z.number().int().min(1).max(64).optional().meta({ description: "Register width in bits; required without a `preset`." }),
       poly: hexOrInt(`Generator polynomial without its top bit, not zero${belowTop}; required without a \`preset\``, "poly", true).optional(),
       init: hexOrInt(`Initial register value${belowTop}`, "init").optional(),
-      refin: z.boolean().optional().meta({ description: "Reflect each input byte." }),
+      refin: z.boolean().optional().meta({
+        description:
+          "Reflect each input byte: it enters the register least significant bit first. Bits given as 0/1 are bytes written most significant bit first " +
+          '(unless `bitsAs` is "stream"), so each whole byte is reversed too.',
+      }),
       refout: z.boolean().optional().meta({ description: "Reflect the final register." }),
       xorout: hexOrInt(`Value XORed into the final register${belowTop}`, "xorout").optional(),
+      bitsAs: z
+        .enum(["bytes", "stream"], { error: 'bitsAs is "bytes" (bits are bytes written most significant bit first) or "stream" (bits enter the register as written).' })
+        .optional()
+        .meta({
+          description:
+            'How words written as bits meet the byte-wise model. "bytes" (default): bits are bytes written most significant bit first, as in a hex dump; ' +
+            "with refin each whole byte enters the register reversed, and a message must be a whole number of bytes. " +
+            '"stream": the bits enter the register in the order written and refin reorders nothing (for messages that are not whole bytes). ' +
+            "Responses write words the same way. Without refin both read the same.",
+        }),
     })
     .superRefine((v, ctx) => {
       if (v.preset !== undefined) {
@@ -132,7 +146,14 @@ const crc = documentRules(
         for (const f of ["width", "poly"] as const) if (v[f] === undefined) ctx.addIssue({ code: "custom", path: [f], message: `\`${f}\` is required without a \`preset\`.` });
       }
     })
-    .meta({ id: "CrcCode", description: "CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset." }),
+    .meta({
+      id: "CrcCode",
+      description:
+        "CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. " +
+        'Worked example: the bits of ASCII "123456789" written most significant bit first, ' +
+        '"00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001", with preset CRC-32/ISO-HDLC (refin) give crc 0xcbf43926, ' +
+        'the catalogue check value, exactly as { text: "123456789" } or { hex: "313233343536373839" } do.',
+    }),
   { allOf: [{ anyOf: [{ required: ["preset"] }, { required: ["width", "poly"] }] }] },
 );
 
@@ -210,7 +231,7 @@ export const analysisRules: JsonSchema[] = [
 const BINARY: Family[] = ["repetition", "parity", "hamming", "golay", "linear", "bch"];
 const zeroOne = { type: "array", items: { maximum: 1 } };
 const hexWord = { type: "object", required: ["hex"] };
-// CRC reads { hex } as bytes: whole pairs of digits.
+// CRC reads { hex } without a length as bytes: whole pairs of digits.
 const EVEN_HEX = "^(0[xX])?[ _]*([0-9a-fA-F][ _]*[0-9a-fA-F][ _]*)*$";
 
 /** Families whose decoders take erasures (BlockCode.supportsErasures). */
@@ -226,7 +247,12 @@ export function wordRules(field: string, erasures = false): JsonSchema[] {
   const noErasures = BINARY.concat("crc").filter((f) => !WITH_ERASURES.includes(f));
   return [
     { if: codeIs(BINARY), then: { properties: items({ type: "string" }, hexWord, zeroOne) } },
-    { if: codeIs(["crc"]), then: { properties: items({ type: "string" }, { ...hexWord, properties: { hex: { pattern: EVEN_HEX } } }, { type: "object", required: ["text"] }, zeroOne) } },
+    {
+      if: codeIs(["crc"]),
+      then: {
+        properties: items({ type: "string" }, { ...hexWord, properties: { hex: { pattern: EVEN_HEX } } }, { type: "object", required: ["hex", "length"] }, { type: "object", required: ["text"] }, zeroOne),
+      },
+    },
     ...fieldSizes(MIN_M).map((m) => ({
       if: codeIs(["rs"], { m: { const: m } }),
       then: {

@@ -22,7 +22,10 @@ export const wordInput = z
     id: "Word",
     description:
       "Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). " +
-      "CRC: bits in the order they enter the register, or bytes as { text } (UTF-8) or { hex }, each byte entering most significant bit first (least significant first when refin).",
+      "CRC: bytes as { text } (UTF-8) or { hex } (whole bytes), or bits as written (0/1 string or array, { hex, length } for the first `length` bits). " +
+      "By default (code.bitsAs \"bytes\") bits are read as bytes written most significant bit first, so with refin each whole byte is reversed as it enters the register " +
+      "and a message must be a whole number of bytes; code.bitsAs \"stream\" feeds the bits in the order written. " +
+      "Example: CRC-32/ISO-HDLC of \"00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001\" (ASCII 123456789) is 0xcbf43926, as of { text: \"123456789\" }.",
   });
 export type WordInput = z.input<typeof wordInput>;
 
@@ -130,12 +133,57 @@ export function resolveCode(spec: CodeSpec, path: (string | number)[], crcMessag
   );
 }
 
-/** UTF-8 or hex bytes → the bit stream the CRC register consumes (refin: least significant bit of each byte first). */
-function bytesToStream(bytes: Uint8Array, refin: boolean): Bits {
+/** UTF-8 or hex bytes → their bits as written, each byte most significant bit first. */
+function bytesToBits(bytes: Uint8Array): Bits {
   const out = new Uint8Array(bytes.length * 8);
-  for (let i = 0; i < bytes.length; i++) for (let b = 0; b < 8; b++) out[i * 8 + b] = (bytes[i]! >>> (refin ? b : 7 - b)) & 1;
+  for (let i = 0; i < bytes.length; i++) for (let b = 0; b < 8; b++) out[i * 8 + b] = (bytes[i]! >>> (7 - b)) & 1;
   return out;
 }
+
+/** Each whole byte (8 bits from position 0, 8, …) reversed; bits after the last whole byte kept. Its own inverse. */
+function reverseEachByte(bits: Bits): Bits {
+  const out = bits.slice();
+  for (let i = 0; i + 8 <= bits.length; i += 8) for (let b = 0; b < 8; b++) out[i + b] = bits[i + 7 - b]!;
+  return out;
+}
+
+type CrcSpec = Extract<CodeSpec, { family: "crc" }>;
+
+/** Words of this spec are bytes whose bits are reversed between the page and the register: refin with bitsAs "bytes" (the default). */
+const crcReversesBytes = (spec: CrcSpec) => crcParams(spec).refin && (spec.bitsAs ?? "bytes") === "bytes";
+
+/** A CRC word's bits as the caller wrote them: { text } and { hex } without length are bytes, most significant bit first. */
+function crcBitsAsWritten(input: WordInput): Bits {
+  if (typeof input === "object" && !Array.isArray(input)) {
+    if ("text" in input) return bytesToBits(new TextEncoder().encode(input.text));
+    if (input.length === undefined) return bytesToBits(hexBytes(input.hex));
+  }
+  return parseBits(input as Parameters<typeof parseBits>[0], MAX_WORD_BITS);
+}
+
+/**
+ * A CRC word → the bits in the order they enter the register. `tail` is the number of CRC bits that end the
+ * word (decode: the width); the message before them must be whole bytes when bytes are reversed, since a
+ * partial byte has no agreed bit order.
+ */
+function readCrcWord(spec: CrcSpec, input: WordInput, tail: number): Bits {
+  const bits = crcBitsAsWritten(input);
+  if (!crcReversesBytes(spec)) return bits;
+  const messageBits = bits.length - tail;
+  if (messageBits > 0 && messageBits % 8) {
+    throw new InputError(
+      `the message has ${messageBits} bits, not a whole number of bytes, and refin reverses each byte as it enters the register: ` +
+        'write whole bytes (most significant bit first), or set code.bitsAs to "stream" to feed the bits in the order written',
+    );
+  }
+  return reverseEachByte(bits);
+}
+
+/** A CRC word for a response, written as its request was: the register's bits with each whole byte reversed back when refin reversed them. */
+export const formatCrcWord = (spec: CrcSpec, bits: Bits): string => formatBits(crcReversesBytes(spec) ? reverseEachByte(bits) : bits);
+
+/** A CRC value as hex, one digit per 4 bits of the width. */
+export const crcHex = (v: bigint, width: number) => "0x" + v.toString(16).padStart(Math.ceil(width / 4), "0");
 
 function hexBytes(hex: string): Uint8Array {
   const digits = hex.replace(/^0x/i, "").replace(/[\s_]/g, "");
@@ -143,13 +191,9 @@ function hexBytes(hex: string): Uint8Array {
   return Uint8Array.from(digits.match(/../g) ?? [], (h) => parseInt(h, 16));
 }
 
-/** Read one word of a request for a code family (before the code is resolved, for CRC's length). */
-export function readWord(spec: CodeSpec, input: WordInput): Word {
-  if (spec.family === "crc" && typeof input === "object" && !Array.isArray(input) && ("text" in input || "hex" in input)) {
-    const refin = spec.refin ?? (spec.preset !== undefined ? crcPreset(spec.preset).refin : false);
-    const bytes = "text" in input ? new TextEncoder().encode(input.text) : hexBytes(input.hex);
-    return bytesToStream(bytes, refin);
-  }
+/** Read one word of a request for a code family (before the code is resolved, for CRC's length); a CRC word ends with `crcTail` CRC bits. */
+export function readWord(spec: CodeSpec, input: WordInput, crcTail = 0): Word {
+  if (spec.family === "crc") return readCrcWord(spec, input, crcTail);
   if (typeof input === "object" && !Array.isArray(input) && "text" in input) throw new InputError("{ text } words are for CRC codes only");
   if (spec.family === "rs") {
     if (Array.isArray(input)) return Uint16Array.from(input);
@@ -186,8 +230,6 @@ export const codeSummary = z
   })
   .meta({ id: "CodeSummary" });
 
-const hex = (v: bigint, width: number) => "0x" + v.toString(16).padStart(Math.ceil(width / 4), "0");
-
 export function summarize(code: BlockCode, spec: CodeSpec): z.output<typeof codeSummary> {
   const gp =
     code.family === "bch"
@@ -205,10 +247,13 @@ export function summarize(code: BlockCode, spec: CodeSpec): z.output<typeof code
     rate: code.n ? code.k / code.n : 0,
     ...(code.dmin !== undefined ? { minimumDistance: code.dmin, minimumDistanceIsDesigned: code.dminIsDesigned ?? false } : {}),
     systematic: code.messagePositions !== undefined,
-    bitOrder: code.bitOrder,
+    bitOrder:
+      spec.family === "crc" && crcReversesBytes(spec)
+        ? `${code.bitOrder} Words are written as bytes, most significant bit first: each whole byte of a word (from position 0) enters the register reversed (refin), in requests and responses alike.`
+        : code.bitOrder,
     supportsErasures: code.supportsErasures,
     ...(gp ? { generatorPolynomial: gp } : {}),
-    ...(crc ? { crc: { width: crc.width, poly: hex(crc.poly, crc.width), init: hex(crc.init, crc.width), refin: crc.refin, refout: crc.refout, xorout: hex(crc.xorout, crc.width) } } : {}),
+    ...(crc ? { crc: { width: crc.width, poly: crcHex(crc.poly, crc.width), init: crcHex(crc.init, crc.width), refin: crc.refin, refout: crc.refout, xorout: crcHex(crc.xorout, crc.width) } } : {}),
   };
 }
 

@@ -73,8 +73,10 @@ function parseHex(hex: unknown, length: unknown, maxBits: number): Bits {
   if (length !== undefined) {
     // The length may drop unused low bits of the last digit only, so that no whole digit is ignored.
     if (typeof length !== "number" || !Number.isInteger(length) || length < 0 || length > full || length <= full - 4) {
+      const fits = typeof length === "number" && Number.isInteger(length) && length >= 0 ? ` (${length} bits take ${Math.ceil(length / 4)} hex digits)` : "";
       throw new InputError(
-        `length must be an integer from ${Math.max(full - 3, 0)} to ${full} for ${digits.length} hex digits; got ${String(length)}`,
+        `length must be an integer from ${Math.max(full - 3, 0)} to ${full} for ${digits.length} hex digits; got ${String(length)}: ` +
+          `it may only drop unused low bits of the last digit, so write as many digits as the bits need${fits}`,
         ["length"],
       );
     }

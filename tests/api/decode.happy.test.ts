@@ -16,6 +16,7 @@ interface DecodeResult {
   syndrome: Word;
   failure: boolean;
   reason?: string;
+  crc?: { received: string; computed: string };
 }
 interface DecodeBody {
   code: { n: number; k: number; q: number; supportsErasures: boolean };
@@ -283,10 +284,10 @@ describe("POST /decode: detected failures", () => {
 describe("POST /decode: CRC verification", () => {
   it("CRC-16/KERMIT: the bytes of 123456789 then their CRC 0x2189 low byte first verify (catalogue check value)", async () => {
     const body = await decodeOk({ code: { family: "crc", preset: "CRC-16/KERMIT" }, words: [{ hex: "313233343536373839 8921" }] });
-    expect(body.results[0]).toMatchObject({ failure: false, correctedPositions: [], syndrome: "0".repeat(16) });
-    // refin: each byte enters least significant bit first (Williams 1993).
-    const stream = [..."123456789"].map((ch) => [...ch.charCodeAt(0).toString(2).padStart(8, "0")].reverse().join("")).join("");
-    expect(body.results[0]!.message).toBe(stream);
+    expect(body.results[0]).toMatchObject({ failure: false, correctedPositions: [], syndrome: "0".repeat(16), crc: { received: "0x2189", computed: "0x2189" } });
+    // The message is written as it was sent: the bytes, most significant bit first (refin reverses them only inside the register).
+    const written = [..."123456789"].map((ch) => ch.charCodeAt(0).toString(2).padStart(8, "0")).join("");
+    expect(body.results[0]!.message).toBe(written);
   });
 
   it("CRC-16/XMODEM (no reflection): 123456789 then 0x31C3 high byte first verifies (catalogue check value)", async () => {
@@ -328,6 +329,8 @@ describe("POST /decode: CRC verification", () => {
     const ok = await decodeOk({ code, words: [{ hex: "3132333435363738398921" }] });
     const frame = ok.results[0]!.codeword as string;
     expect(frame).toHaveLength(88);
+    // The codeword as written reads back as the same, valid frame.
+    expect((await decodeOk({ code, words: [frame] })).failures).toBe(0);
     const body = await decodeOk({ code, words: Array.from({ length: 88 }, (_, p) => flip(frame, [p])) });
     expect(body.failures).toBe(88);
   });

@@ -3,7 +3,8 @@ import { formatBits } from "@/lib/core/bits";
 import type { BlockCode, DecodeResult, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec, wordRules } from "../code-spec";
-import { atWord, codeSummary, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
+import { crcAppendedValue, crcComputeBits } from "@/lib/core/codes/crc";
+import { atWord, codeSummary, crcHex, crcParams, formatCrcWord, formatWord, readWord, summarize, wordInput, wordOutput } from "../codes";
 import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
@@ -81,6 +82,13 @@ const output = z
         syndrome: wordOutput.meta({ description: "Syndrome of the received word; all zero for a codeword." }),
         failure: z.boolean().meta({ description: "The decoder detected that it could not decode: do not trust `message`." }),
         reason: z.string().optional(),
+        crc: z
+          .object({
+            received: z.string().meta({ description: "The CRC value the word carries, in hex." }),
+            computed: z.string().meta({ description: "The CRC of the word's message, in hex; equal to `received` when the word verifies." }),
+          })
+          .optional()
+          .meta({ description: "CRC families: the two values the check compares (their XOR is the syndrome)." }),
       }),
     ),
     failures: z.number().int(),
@@ -116,7 +124,8 @@ export const decode = defineEndpoint({
   work: (req) => batchWork(req.code, req.words, "decode"),
   workRule: `the code's construction once, then each word. ${CODE_WORK_RULE}`,
   handler: (req) => {
-    const words = req.words.map((w, i) => at(["words", i], () => readWord(req.code, w)));
+    const crc = req.code.family === "crc" ? { spec: req.code, params: crcParams(req.code) } : undefined;
+    const words = req.words.map((w, i) => at(["words", i], () => readWord(req.code, w, crc?.params.width)));
     // A CRC word is message + CRC: the message length is the word's minus the width.
     const codes = resolveBatch(req.code, words, "words", (width) => width);
     // Every family but CRC (whose k is each word's length) has one code for the whole batch; erasures go word by word.
@@ -126,13 +135,20 @@ export const decode = defineEndpoint({
       const erasures = req.erasures?.[i];
       if (erasures?.length && !code.supportsErasures) throw new InputError(`${code.name} does not take erasures`, ["erasures", i]);
       const r = together?.[i] ?? atWord("words", i, () => code.decode(w, erasures?.length ? erasures : undefined));
-      return {
-        message: formatWord(code, r.message),
-        codeword: formatWord(code, r.codeword),
+      const common = {
         correctedPositions: r.correctedPositions,
         syndrome: code.q === 2 ? formatBits(r.syndrome as Uint8Array) : Array.from(r.syndrome),
         failure: r.failure,
         ...(r.reason !== undefined ? { reason: r.reason } : {}),
+      };
+      if (!crc) return { message: formatWord(code, r.message), codeword: formatWord(code, r.codeword), ...common };
+      const { width } = crc.params;
+      const cw = r.codeword as Uint8Array;
+      return {
+        message: formatCrcWord(crc.spec, r.message as Uint8Array),
+        codeword: formatCrcWord(crc.spec, cw),
+        ...common,
+        crc: { received: crcHex(crcAppendedValue(crc.params, cw.subarray(code.k)), width), computed: crcHex(crcComputeBits(crc.params, cw.subarray(0, code.k)), width) },
       };
     });
     return { code: summarize(codes[0]!, req.code), results, failures: results.filter((r) => r.failure).length };

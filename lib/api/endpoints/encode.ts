@@ -3,7 +3,7 @@ import { crcComputeBits } from "@/lib/core/codes/crc";
 import type { BlockCode, Word } from "@/lib/core/codes/types";
 import { InputError } from "@/lib/core/errors";
 import { codeSpec, wordRules } from "../code-spec";
-import { atWord, codeSummary, crcParams, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
+import { atWord, codeSummary, crcHex, crcParams, formatCrcWord, formatWord, readWord, resolveCode, summarize, wordInput, wordOutput } from "../codes";
 import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
@@ -109,10 +109,8 @@ export const encode = defineEndpoint({
     const codewords = messages.map((m, i) => {
       const code = codes[i]!;
       const cw = together?.[i] ?? atWord("messages", i, () => code.encode(m));
-      return {
-        codeword: formatWord(code, cw),
-        ...(req.code.family === "crc" ? { crc: "0x" + crcComputeBits(crcParams(req.code), m as Uint8Array).toString(16).padStart(Math.ceil((code.n - code.k) / 4), "0") } : {}),
-      };
+      if (req.code.family !== "crc") return { codeword: formatWord(code, cw) };
+      return { codeword: formatCrcWord(req.code, cw as Uint8Array), crc: crcHex(crcComputeBits(crcParams(req.code), m as Uint8Array), code.n - code.k) };
     });
     return { code: summarize(codes[0]!, req.code), codewords };
   },

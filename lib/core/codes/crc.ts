@@ -280,6 +280,15 @@ export function crcComputeBits(params: CrcParams, bits: Bits): bigint {
   return engine(params).crcOfBits(bits);
 }
 
+/** The CRC value carried by the last `width` bits of a codeword of crcCode: most significant bit first, least significant first when refout. */
+export function crcAppendedValue(params: CrcParams, tail: Bits): bigint {
+  const w = params.width;
+  if (tail.length !== w) throw new InputError(`the CRC part has ${tail.length} bits; the CRC is ${w} bits wide`, ["tail"]);
+  let v = 0n;
+  for (let j = 0; j < w; j++) v |= BigInt(tail[j]! & 1) << BigInt(params.refout ? j : w - 1 - j);
+  return v;
+}
+
 /** Largest message length of the bit-aligned CRC code. */
 export const MAX_CRC_MESSAGE_BITS = 1 << 20;
 
@@ -327,8 +336,7 @@ export function crcCode(params: CrcParams & { name?: string }, k: number): Block
       const r = checkBinaryWord(received, n, "received", name);
       rejectErasures(erasures, name);
       const computed = crcComputeBits(params, r.subarray(0, k));
-      let got = 0n;
-      for (let j = 0; j < w; j++) got |= BigInt(r[k + j]!) << BigInt(params.refout ? j : w - 1 - j);
+      const got = crcAppendedValue(params, r.subarray(k));
       const syndrome = Uint8Array.from({ length: w }, (_, j) => valueBit(got ^ computed, j));
       const base = { message: r.slice(0, k), codeword: r.slice(), correctedPositions: [], syndrome };
       if (got === computed) return { ...base, failure: false };
