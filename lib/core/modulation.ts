@@ -79,10 +79,62 @@ export function pskSymbolErrorRate(order: number, ebN0: number): { value: number
   return { value: scale * (whole.value + part.value), absError: scale * (whole.absError + part.absError) };
 }
 
-/** Uncoded BER and SER on AWGN with Gray mapping at linear Eb/N0, with which formula gave each and whether it is exact (Proakis & Salehi 2008, ch. 4). */
+/** Which BER formula serves square M-QAM: Cho & Yoon's exact sum, or the nearest-neighbour approximation. */
+export type QamBerFormula = "exact" | "nearest-neighbour";
+/** The QAM BER formulas by name; the first is the default. */
+export const QAM_BER_FORMULAS: readonly QamBerFormula[] = ["exact", "nearest-neighbour"];
+
+export type BerOptions = { qamBerFormula?: QamBerFormula };
+
+// Cho & Yoon's coefficients summed over the bit positions k, by i: the terms with the same erfc argument.
+const choYoonCache = new Map<number, Float64Array>();
+
+function choYoonCoefficients(M: number): Float64Array {
+  const cached = choYoonCache.get(M);
+  if (cached) return cached;
+  const side = Math.round(Math.sqrt(M));
+  const bits = Math.round(Math.log2(side));
+  const c = new Float64Array(side - 1);
+  for (let k = 1; k <= bits; k++) {
+    const w = 2 ** (k - 1);
+    for (let i = 0; i < (1 - 2 ** -k) * side; i++) {
+      const f = Math.floor((i * w) / side);
+      c[i]! += (f % 2 === 0 ? 1 : -1) * (w - Math.floor((i * w) / side + 0.5));
+    }
+  }
+  choYoonCache.set(M, c);
+  return c;
+}
+
+/**
+ * Exact BER of Gray-labelled square M-QAM on AWGN at linear Eb/N0 (Cho & Yoon, "On the general BER expression of
+ * one- and two-dimensional amplitude modulations", IEEE Trans. Commun. 50(7), 2002, eqs. for I = J = √M):
+ * Pb = (1/log2 √M)·Σ_{k=1}^{log2 √M} Pb(k),
+ * Pb(k) = (1/√M)·Σ_{i=0}^{(1−2^{−k})√M − 1} (−1)^{⌊i·2^{k−1}/√M⌋}·(2^{k−1} − ⌊i·2^{k−1}/√M + ½⌋)·erfc((2i + 1)·√(3·log2 M·Eb/N0/(2(M − 1)))).
+ * The terms of equal i are gathered and summed from the smallest; the i = 0 term, the nearest-neighbour
+ * approximation, dominates at high SNR, so no digits cancel there.
+ */
+export function qamBerExact(order: number, ebN0: number): number {
+  const { kind, M, k } = resolve({ scheme: "qam", order });
+  if (kind !== "qam") throw new InputError(`qam order must be a square constellation size; got ${order}`, ["order"]);
+  checkEbN0(ebN0);
+  const c = choYoonCoefficients(M);
+  const x = Math.sqrt((3 * k * ebN0) / (2 * (M - 1)));
+  let sum = 0;
+  for (let i = c.length - 1; i >= 0; i--) if (c[i] !== 0) sum += c[i]! * erfc((2 * i + 1) * x);
+  return sum / (Math.sqrt(M) * (k / 2));
+}
+
+const CHO_YOON = "Cho & Yoon 2002";
+
+/**
+ * Uncoded BER and SER on AWGN with Gray mapping at linear Eb/N0, with which formula gave each and whether it is exact
+ * (Proakis & Salehi 2008, ch. 4; square M-QAM BER by Cho & Yoon 2002 unless `qamBerFormula` is "nearest-neighbour").
+ */
 export function uncodedErrorRates(
   mod: Modulation,
   ebN0: number,
+  opts: BerOptions = {},
 ): { ber: number; ser: number; berExact: boolean; serExact: boolean; berMethod: string; serMethod: string } {
   const { kind, M, k } = resolve(mod);
   checkEbN0(ebN0);
@@ -119,37 +171,58 @@ export function uncodedErrorRates(
       const rootM = Math.sqrt(M);
       const q = qfunc(Math.sqrt((3 * k * ebN0) / (M - 1)));
       const pRail = 2 * (1 - 1 / rootM) * q;
+      const serMethod = `exact: 1 − (1 − P)², P = 2(1 − 1/√M)·Q(√(3k·Eb/N0/(M − 1))) per rail of the square constellation (${src})`;
+      const ser = pRail * (2 - pRail);
+      // 4-QAM is QPSK: both formulas reduce to Q(√(2·Eb/N0)).
+      if (M === 4) return { ber: q, ser, berExact: true, serExact: true, berMethod: `exact: Q(√(2·Eb/N0)), Gray mapping (${src})`, serMethod };
+      if ((opts.qamBerFormula ?? "exact") === "exact") {
+        return {
+          ber: qamBerExact(M, ebN0),
+          ser,
+          berExact: true,
+          serExact: true,
+          berMethod:
+            `exact: (1/log2 √M)·Σ_{k=1}^{log2 √M} (1/√M)·Σ_{i=0}^{(1−2^{−k})√M − 1} (−1)^{⌊i·2^{k−1}/√M⌋}·(2^{k−1} − ⌊i·2^{k−1}/√M + ½⌋)` +
+            `·erfc((2i + 1)·√(3k·Eb/N0/(2(M − 1)))), Gray mapping (${CHO_YOON})`,
+          serMethod,
+        };
+      }
       return {
         ber: (4 / k) * (1 - 1 / rootM) * q,
-        ser: pRail * (2 - pRail),
-        berExact: M === 4,
+        ser,
+        berExact: false,
         serExact: true,
-        berMethod:
-          M === 4
-            ? `exact: Q(√(2·Eb/N0)), Gray mapping (${src})`
-            : `approximation: (4/k)(1 − 1/√M)·Q(√(3k·Eb/N0/(M − 1))), Gray mapping with symbol errors to adjacent points only (${src})`,
-        serMethod: `exact: 1 − (1 − P)², P = 2(1 − 1/√M)·Q(√(3k·Eb/N0/(M − 1))) per rail of the square constellation (${src})`,
+        berMethod: `approximation: (4/k)(1 − 1/√M)·Q(√(3k·Eb/N0/(M − 1))), Gray mapping with symbol errors to adjacent points only (${src})`,
+        serMethod,
       };
     }
   }
 }
 
-/** The uncoded BER at Eb/N0 = 0, the supremum of the BER curve: ½, (M − 1)/(M·log2 M) for M-PSK, (2/log2 M)(1 − 1/√M) for M-QAM (the formulas of uncodedErrorRates at 0). */
-export function maximumUncodedBer(mod: Modulation): number {
-  return maximumBer(resolve(mod));
+/**
+ * The uncoded BER at Eb/N0 = 0, the supremum of the BER curve: ½; (M − 1)/(M·log2 M) for M-PSK (SER/k);
+ * ½ for exact M-QAM (the decision is then one of the two outermost levels of each rail) and (2/log2 M)(1 − 1/√M)
+ * for its nearest-neighbour approximation (the formulas of uncodedErrorRates at 0).
+ */
+export function maximumUncodedBer(mod: Modulation, opts: BerOptions = {}): number {
+  return maximumBer(resolve(mod), opts);
 }
 
 // BER at Eb/N0 = 0, the supremum of the BER curve, from the same formulas.
-function maximumBer({ kind, M, k }: Scheme): number {
+function maximumBer({ kind, M, k }: Scheme, opts: BerOptions): number {
   if (kind === "psk") return (M - 1) / M / k;
-  if (kind === "qam") return (2 / k) * (1 - 1 / Math.sqrt(M));
+  if (kind === "qam" && M > 4 && opts.qamBerFormula === "nearest-neighbour") return (2 / k) * (1 - 1 / Math.sqrt(M));
   return 0.5;
 }
 
-/** Linear Eb/N0 where the uncoded BER equals targetBer: erfcinv(2·BER)² when BER = Q(√(2·Eb/N0)) (BPSK, QPSK, 4-QAM; Proakis & Salehi 2008), else bisection on dB to 1e-10 dB. */
-export function requiredEbN0(mod: Modulation, targetBer: number): number {
+/**
+ * Linear Eb/N0 where the uncoded BER (of the formula `opts` selects) equals targetBer: erfcinv(2·BER)² when
+ * BER = Q(√(2·Eb/N0)) (BPSK, QPSK, 4-QAM; Proakis & Salehi 2008), else bisection on dB to 1e-10 dB on the same
+ * formula uncodedErrorRates serves.
+ */
+export function requiredEbN0(mod: Modulation, targetBer: number, opts: BerOptions = {}): number {
   const scheme = resolve(mod);
-  const max = maximumBer(scheme);
+  const max = maximumBer(scheme, opts);
   if (!(targetBer > 0)) throw new InputError(`targetBer must be a probability greater than 0; got ${targetBer}`);
   if (!(targetBer < max)) {
     throw new InputError(
@@ -160,7 +233,7 @@ export function requiredEbN0(mod: Modulation, targetBer: number): number {
     return erfcinv(2 * targetBer) ** 2;
   }
   const logTarget = Math.log(targetBer);
-  const f = (db: number) => Math.log(uncodedErrorRates(mod, Math.pow(10, db / 10)).ber) - logTarget;
+  const f = (db: number) => Math.log(uncodedErrorRates(mod, Math.pow(10, db / 10), opts).ber) - logTarget;
   // Targets just below the maximum need Eb/N0 under −20 dB; widen the bracket until the BER exceeds the target.
   let lo = -20;
   while (f(lo) < 0) {

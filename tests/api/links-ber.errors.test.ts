@@ -64,7 +64,7 @@ describe("POST /links/ber: bad input", () => {
     expectFieldError(await call(body), "/order", message);
   });
 
-  it("a target above the highest BER the modulation can have → 422 at /targetBer (4096-QAM never exceeds about 0.08)", async () => {
-    expectFieldError(await call({ modulation: "qam", order: 4096, targetBer: 0.4 }), "/targetBer", /never exceeds/);
+  it("a target above the highest BER the formula can have → 422 at /targetBer (4096-QAM's nearest-neighbour formula never exceeds about 0.08)", async () => {
+    expectFieldError(await call({ modulation: "qam", order: 4096, berFormula: "nearest-neighbour", targetBer: 0.4 }), "/targetBer", /never exceeds/);
   });
 });

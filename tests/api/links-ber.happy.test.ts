@@ -1,6 +1,6 @@
 import erfc from "@stdlib/math-base-special-erfc";
 import { beforeAll, describe, expect, it } from "vitest";
-import { postJson, relErr } from "../helpers/api";
+import { expectFieldError, postJson, relErr } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 
 let auth: string;
@@ -29,6 +29,27 @@ function qamSer(M: number, ebN0Db: number): number {
 }
 /** Square M-QAM bit error with Gray mapping, nearest-neighbour errors only: (4/k)(1 − 1/√M)·Q(√(3k·Eb/N0/(M − 1))) = 2P/k (Proakis & Salehi, ch. 4). */
 const qamBer = (M: number, ebN0Db: number) => (2 * qamRail(M, ebN0Db)) / Math.log2(M);
+
+/**
+ * Exact Gray BER of square M-QAM as published by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), written out term by term
+ * per bit position k with @stdlib erfc: (1/log2 √M)·Σ_k (1/√M)·Σ_{i=0}^{(1−2^{−k})√M − 1} (−1)^{⌊i·2^{k−1}/√M⌋}
+ * ·(2^{k−1} − ⌊i·2^{k−1}/√M + ½⌋)·erfc((2i + 1)·√(3·log2 M·Eb/N0/(2(M − 1)))).
+ */
+function qamBerChoYoon(M: number, ebN0Db: number): number {
+  const side = Math.sqrt(M);
+  const bits = Math.log2(side);
+  const x = Math.sqrt((3 * Math.log2(M) * lin(ebN0Db)) / (2 * (M - 1)));
+  let total = 0;
+  for (let k = 1; k <= bits; k++) {
+    let pk = 0;
+    for (let i = 0; i <= (1 - 2 ** -k) * side - 1; i++) {
+      const f = (i * 2 ** (k - 1)) / side;
+      pk += (-1) ** Math.floor(f) * (2 ** (k - 1) - Math.floor(f + 0.5)) * erfc((2 * i + 1) * x);
+    }
+    total += pk / side;
+  }
+  return total / bits;
+}
 
 /** M-PSK symbol error by Craig's integral (1/π)∫₀^{(M−1)π/M} exp(−Es/N0·sin²(π/M)/sin²θ) dθ, Simpson's rule with 20,000 panels, computed here. */
 function pskSer(M: number, ebN0Db: number): number {
@@ -108,9 +129,32 @@ describe("POST /links/ber: BPSK and QPSK", () => {
 });
 
 describe("POST /links/ber: M-QAM and M-PSK", () => {
-  it("16-QAM sweep: SER and the Gray nearest-neighbour BER match the square-QAM formulas (Proakis & Salehi) with @stdlib erfc", async () => {
-    const dbs = [4, 6, 8, 10, 12];
+  it("16-QAM sweep by default: the exact Gray BER of Cho & Yoon 2002 (written out here with @stdlib erfc; relative 1e-12) and the exact SER", async () => {
+    const dbs = [4, 6, 8, 10, 12, 20];
     const res = await call({ modulation: "qam", order: 16, ebN0Db: dbs });
+    expect(res.body).toMatchObject({ order: 16, bitsPerSymbol: 4, berExact: true, serExact: true });
+    expect(res.body.berMethod).toMatch(/^exact: .*Cho & Yoon 2002/);
+    dbs.forEach((d, i) => {
+      expect(relErr(res.body.points[i].ber, qamBerChoYoon(16, d))).toBeLessThan(1e-12);
+      expect(relErr(res.body.points[i].ser, qamSer(16, d))).toBeLessThan(1e-10);
+    });
+  });
+
+  it("64-QAM at 6 dB: the nearest-neighbour formula, asked for by name, is 0.1 % to 1 % below the exact BER (about 0.4 %, issue report; common practice)", async () => {
+    const exact = await call({ modulation: "qam", order: 64, ebN0Db: 6 });
+    const nn = await call({ modulation: "qam", order: 64, berFormula: "nearest-neighbour", ebN0Db: 6 });
+    expect(relErr(exact.body.points[0].ber, qamBerChoYoon(64, 6))).toBeLessThan(1e-12);
+    expect(relErr(nn.body.points[0].ber, qamBer(64, 6))).toBeLessThan(1e-12);
+    const diff = relErr(nn.body.points[0].ber, exact.body.points[0].ber);
+    expect(diff).toBeGreaterThan(1e-3);
+    expect(diff).toBeLessThan(1e-2);
+    expect(nn.body.berExact).toBe(false);
+    expect(nn.body.berMethod).toMatch(/^approximation/);
+  });
+
+  it("16-QAM sweep with berFormula nearest-neighbour: SER and the Gray nearest-neighbour BER match the square-QAM formulas (Proakis & Salehi) with @stdlib erfc", async () => {
+    const dbs = [4, 6, 8, 10, 12];
+    const res = await call({ modulation: "qam", order: 16, berFormula: "nearest-neighbour", ebN0Db: dbs });
     expect(res.body).toMatchObject({ order: 16, bitsPerSymbol: 4, berExact: false, serExact: true });
     dbs.forEach((d, i) => {
       const ser = qamSer(16, d);
@@ -157,9 +201,33 @@ describe("POST /links/ber: M-QAM and M-PSK", () => {
     expect(relErr(approx, 1e-6)).toBeLessThan(0.05);
   });
 
-  it("16-QAM Eb/N0 for BER 1e-5: the Gray nearest-neighbour BER is 1e-5 there (Proakis & Salehi; relative 1e-6)", async () => {
-    const res = await call({ modulation: "qam", order: 16, targetBer: 1e-5 });
+  it("16-QAM Eb/N0 for BER 1e-5 with the nearest-neighbour formula: that BER is 1e-5 there (Proakis & Salehi; relative 1e-6)", async () => {
+    const res = await call({ modulation: "qam", order: 16, berFormula: "nearest-neighbour", targetBer: 1e-5 });
     expect(relErr(qamBer(16, res.body.required.ebN0Db), 1e-5)).toBeLessThan(1e-6);
+  });
+
+  it.each([16, 64, 1024])("%d-QAM Eb/N0 for BER 1e-6 by default: Cho & Yoon's exact BER is 1e-6 there (relative 1e-8)", async (M) => {
+    const res = await call({ modulation: "qam", order: M, targetBer: 1e-6 });
+    expect(relErr(qamBerChoYoon(M, res.body.required.ebN0Db), 1e-6)).toBeLessThan(1e-8);
+    // At 1e-6 the terms beyond the nearest neighbours (erfc(3x) against erfc(x)) no longer count: the answers agree.
+    const nn = await call({ modulation: "qam", order: M, berFormula: "nearest-neighbour", targetBer: 1e-6 });
+    expect(Math.abs(res.body.required.ebN0Db - nn.body.required.ebN0Db)).toBeLessThan(1e-3);
+  });
+
+  it("64-QAM Eb/N0 for BER 0.05: the exact answer is above the nearest-neighbour one, which undercounts errors at low SNR", async () => {
+    const res = await call({ modulation: "qam", order: 64, targetBer: 0.05 });
+    expect(relErr(qamBerChoYoon(64, res.body.required.ebN0Db), 0.05)).toBeLessThan(1e-8);
+    const nn = await call({ modulation: "qam", order: 64, berFormula: "nearest-neighbour", targetBer: 0.05 });
+    expect(relErr(qamBer(64, nn.body.required.ebN0Db), 0.05)).toBeLessThan(1e-8);
+    // Measured 7e-4 dB, far beyond the 1e-10 dB bisection tolerance.
+    expect(res.body.required.ebN0Db - nn.body.required.ebN0Db).toBeGreaterThan(1e-4);
+  });
+
+  it("exact M-QAM accepts targets up to ½ (its BER at Eb/N0 = 0); the nearest-neighbour formula stops at (2/log2 M)(1 − 1/√M) = 3/8 for 16-QAM", async () => {
+    const res = await call({ modulation: "qam", order: 16, targetBer: 0.4 });
+    expect(relErr(qamBerChoYoon(16, res.body.required.ebN0Db), 0.4)).toBeLessThan(1e-8);
+    const refused = await postJson("/api/v1/links/ber", { modulation: "qam", order: 16, berFormula: "nearest-neighbour", targetBer: 0.4 }, auth);
+    expectFieldError(refused, "/targetBer", /never exceeds 0\.375/);
   });
 });
 
@@ -188,7 +256,8 @@ describe("POST /links/ber: coding gain and cost", () => {
     expect(res.body.coding.correctingRadius).toBe(0);
   });
 
-  // The documented rule: 256 + points × 2^12 work (2^16 per point for M-PSK, whose symbol error is an integral at each point);
+  // The documented rule: 256 + points × 2^12 work (2^16 per point for M-PSK, whose symbol error is an integral at each point;
+  // 2^12 + 2^6·√M for M-QAM's exact BER); a targetBer adds 64 × the per-point figure;
   // 1 compute unit per started 2^22 work units, at least 1.
   const units = (work: number) => String(Math.max(1, Math.ceil(work / 2 ** 22)));
   const sweepOf = (count: number) => Array.from({ length: count }, (_, i) => -10 + (20 * i) / count);
@@ -210,6 +279,18 @@ describe("POST /links/ber: coding gain and cost", () => {
     const res = await call({ modulation: "psk", order: 8, ebN0Db: sweepOf(count) });
     expect(res.body.points).toHaveLength(count);
     expect(res.headers["x-compute-units"]).toBe(units(256 + count * 2 ** 16));
+    expect(res.headers["x-compute-units"]).toBe(expected);
+  });
+
+  it.each([
+    [64, 900, "exact", 2 ** 12 + 2 ** 6 * 8, "1"],
+    [64, 1000, "exact", 2 ** 12 + 2 ** 6 * 8, "2"],
+    [4096, 1000, "exact", 2 ** 12 + 2 ** 6 * 64, "2"],
+    [4096, 1000, "nearest-neighbour", 2 ** 12, "1"],
+  ] as const)("a %d-QAM sweep of %d points with the %s BER costs 256 + points × %d work: %s units", async (M, count, berFormula, perPoint, expected) => {
+    const res = await call({ modulation: "qam", order: M, berFormula, ebN0Db: sweepOf(count) });
+    expect(res.body.points).toHaveLength(count);
+    expect(res.headers["x-compute-units"]).toBe(units(256 + count * perPoint));
     expect(res.headers["x-compute-units"]).toBe(expected);
   });
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { dbToLinear, linearToDb } from "@/lib/core/capacity";
-import { MAX_PSK_ORDER, maximumUncodedBer, QAM_ORDERS, requiredEbN0, uncodedErrorRates, type Modulation } from "@/lib/core/modulation";
+import { MAX_PSK_ORDER, maximumUncodedBer, QAM_BER_FORMULAS, QAM_ORDERS, requiredEbN0, uncodedErrorRates, type BerOptions, type Modulation } from "@/lib/core/modulation";
 import { at, defineEndpoint } from "../endpoint";
 import { atLeastOneOf, caution, documentRules } from "../schemas";
 
@@ -22,7 +22,7 @@ const shared = {
     .optional()
     .meta({
       description:
-        "Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM.",
+        "Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula.",
     }),
   code: z
     .strictObject({
@@ -43,13 +43,34 @@ const orderOf = (scheme: "psk" | "qam", values: readonly number[], rule: string)
     // zod-to-openapi 9 writes only the first value of a literal with several.
     .meta({ description: `M: ${rule}.`, enum: [...values] });
 
-/** JSON Schema: targetBer below the modulation's BER at Eb/N0 = 0, per order. */
+const NEAREST: BerOptions = { qamBerFormula: "nearest-neighbour" };
+
+/** JSON Schema: targetBer below the modulation's BER at Eb/N0 = 0, per order (for QAM, per order with the nearest-neighbour formula; the exact one reaches ½). */
 const targetBerRules = (scheme: "psk" | "qam", orders: readonly number[]) => ({
-  allOf: orders.map((order) => ({
-    if: { properties: { order: { const: order } }, required: ["order"] },
-    then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }) } } },
-  })),
+  allOf: orders
+    .filter((order) => maximumUncodedBer({ scheme, order }, NEAREST) < 0.5)
+    .map((order) =>
+      scheme === "psk"
+        ? {
+            if: { properties: { order: { const: order } }, required: ["order"] },
+            then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }) } } },
+          }
+        : {
+            if: { properties: { order: { const: order }, berFormula: { const: "nearest-neighbour" } }, required: ["order", "berFormula"] },
+            then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }, NEAREST) } } },
+          },
+    ),
 });
+
+const berFormula = z
+  .enum(QAM_BER_FORMULAS)
+  .default("exact")
+  .meta({
+    description:
+      "The BER formula, for the points and for `targetBer`: `exact` (default), Cho & Yoon's closed form for Gray-labelled square M-QAM " +
+      "(IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) " +
+      "that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB).",
+  });
 
 const fixedOrder = (scheme: "bpsk" | "qpsk", order: number) =>
   z
@@ -70,7 +91,7 @@ const input = documentRules(
       ),
       documentRules(
         z
-          .strictObject({ modulation: z.literal("qam"), order: orderOf("qam", QAM_ORDERS, `a square constellation size, one of ${QAM_ORDERS.join(", ")}`), ...shared })
+          .strictObject({ modulation: z.literal("qam"), order: orderOf("qam", QAM_ORDERS, `a square constellation size, one of ${QAM_ORDERS.join(", ")}`), berFormula, ...shared })
           .meta({ description: "Square M-QAM, Gray-mapped." }),
         targetBerRules("qam", QAM_ORDERS),
       ),
@@ -91,14 +112,14 @@ const output = z
       .array(z.object({ ebN0Db: z.number(), ber: z.number(), ser: z.number() }))
       .optional()
       .meta({ description: "Uncoded bit and symbol error probabilities on AWGN at each Eb/N0." }),
-    berExact: z.boolean().meta({ description: "true where the BER formula is exact; false for the Gray-mapping approximation." }),
+    berExact: z.boolean().meta({ description: "true where the BER formula is exact; false for an approximation (M-PSK's SER/log2 M, M-QAM's nearest-neighbour formula)." }),
     serExact: z.boolean(),
-    berMethod: z.string(),
+    berMethod: z.string().meta({ description: "The BER formula used, with its source." }),
     serMethod: z.string(),
     required: z
       .object({ targetBer: z.number(), ebN0Db: z.number(), ebN0: z.number() })
       .optional()
-      .meta({ description: "Eb/N0 at which the uncoded BER equals the target." }),
+      .meta({ description: "Eb/N0 at which the uncoded BER (the formula of `berMethod`) equals the target: closed form for BPSK, QPSK and 4-QAM, else bisection to 1e-10 dB." }),
     coding: z
       .object({
         rate: z.number(),
@@ -111,6 +132,8 @@ const output = z
   })
   .meta({ id: "LinkBerResult" });
 
+const berOptionsOf = (v: z.output<typeof input>): BerOptions => (v.modulation === "qam" ? { qamBerFormula: v.berFormula } : {});
+
 const modulationOf = (v: z.output<typeof input>): Modulation =>
   v.modulation === "bpsk" || v.modulation === "qpsk" ? { scheme: v.modulation } : { scheme: v.modulation, order: v.order! };
 
@@ -122,37 +145,42 @@ export const linkBer = defineEndpoint({
   tag: "Links",
   summary: "Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain",
   description:
-    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). " +
-    "The inverse is found by root finding (exact inverse for BPSK/QPSK).",
+    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). " +
+    "Square M-QAM: exact symbol error; exact Gray BER by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), or with `berFormula: \"nearest-neighbour\"` " +
+    "the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))). " +
+    "The inverse is solved on the same formula: closed form for BPSK, QPSK and 4-QAM, else bisection on Eb/N0 in dB to 1e-10 dB.",
   input,
   output,
   examples: {
     bpsk: { summary: "BPSK at 9.6 dB", value: { modulation: "bpsk", ebN0Db: 9.6 } },
     sweep: { summary: "16-QAM sweep", value: { modulation: "qam", order: 16, ebN0Db: [4, 6, 8, 10, 12] } },
     target: { summary: "Eb/N0 for BER 1e-6 with 8-PSK", value: { modulation: "psk", order: 8, targetBer: 1e-6 } },
+    nearest: { summary: "64-QAM at 6 dB by the nearest-neighbour approximation", value: { modulation: "qam", order: 64, berFormula: "nearest-neighbour", ebN0Db: 6 } },
     gain: { summary: "Coding gain of a (23,12) code with dmin 7 and BPSK at BER 1e-5", value: { modulation: "bpsk", targetBer: 1e-5, code: { n: 23, k: 12, dmin: 7 } } },
   },
   work: (req) => {
-    // M-PSK's symbol error is Craig's integral at each point; the other modulations have closed forms.
-    const perPoint = req.modulation === "psk" ? 2 ** 16 : 2 ** 12;
+    // M-PSK's symbol error is Craig's integral at each point; exact M-QAM sums √M − 1 erfc terms; the rest are closed forms.
+    const perPoint = req.modulation === "psk" ? 2 ** 16 : req.modulation === "qam" && req.berFormula === "exact" ? 2 ** 12 + 2 ** 6 * Math.sqrt(req.order) : 2 ** 12;
     const points = req.ebN0Db === undefined ? 0 : Array.isArray(req.ebN0Db) ? req.ebN0Db.length : 1;
     return 256 + points * perPoint + (req.targetBer !== undefined ? 64 * perPoint : 0);
   },
-  workRule: "256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point) + 64 × that per-point figure for a `targetBer` (root finding).",
+  workRule:
+    "256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point; 2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding).",
   handler: (req) => {
     const mod = modulationOf(req);
+    const opts = berOptionsOf(req);
     const order = req.modulation === "bpsk" ? 2 : req.modulation === "qpsk" ? 4 : req.order!;
     const sweep = req.ebN0Db === undefined ? [] : Array.isArray(req.ebN0Db) ? req.ebN0Db : [req.ebN0Db];
     // The core names the bad field of the modulation itself (["order"]): no prefix to add.
-    const probe = uncodedErrorRates(mod, 1);
+    const probe = uncodedErrorRates(mod, 1, opts);
     const points = sweep.map((db) => {
-      const r = uncodedErrorRates(mod, dbToLinear(db));
+      const r = uncodedErrorRates(mod, dbToLinear(db), opts);
       return { ebN0Db: db, ber: r.ber, ser: r.ser };
     });
     const required =
       req.targetBer !== undefined
         ? (() => {
-            const e = at(["targetBer"], () => requiredEbN0(mod, req.targetBer!));
+            const e = at(["targetBer"], () => requiredEbN0(mod, req.targetBer!, opts));
             return { targetBer: req.targetBer, ebN0Db: linearToDb(e), ebN0: e };
           })()
         : undefined;
