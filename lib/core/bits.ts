@@ -27,7 +27,7 @@ function parseBitString(s: string, maxBits: number): Bits {
       if (n === maxBits) throw tooLong(`more than ${maxBits}`, maxBits);
       out[n++] = c - 48;
     } else if (c !== 32 && c !== 95) {
-      throw new InputError(`character ${i + 1} is ${describeChar(s, i)}; only 0, 1, space and _ are allowed`);
+      throw new InputError(`character ${i} (counting from 0) is ${describeChar(s, i)}; only 0, 1, space and _ are allowed`);
     }
   }
   return out.slice(0, n);
@@ -39,7 +39,7 @@ function parseBitArray(a: unknown[], maxBits: number): Bits {
   for (let i = 0; i < a.length; i++) {
     const v = a[i];
     if (v !== 0 && v !== 1) {
-      throw new InputError(`entry ${i} is ${JSON.stringify(v) ?? String(v)}; only the numbers 0 and 1 are allowed`, [i]);
+      throw new InputError(`entry ${i} (counting from 0) is ${JSON.stringify(v) ?? String(v)}; only the numbers 0 and 1 are allowed`, [i]);
     }
     out[i] = v;
   }
@@ -62,7 +62,7 @@ function parseHex(hex: unknown, length: unknown, maxBits: number): Bits {
     if (c === 32 || c === 95) continue;
     const v = hexValue(c);
     if (v < 0) {
-      throw new InputError(`character ${i + 1} is ${describeChar(hex, i)}; only hex digits 0-9, a-f, A-F, space and _ are allowed`, ["hex"]);
+      throw new InputError(`character ${i} (counting from 0) is ${describeChar(hex, i)}; only hex digits 0-9, a-f, A-F, space and _ are allowed`, ["hex"]);
     }
     // One digit more than ceil(maxBits / 4) exceeds the limit whatever the length says.
     if (digits.length === Math.ceil(maxBits / 4)) throw tooLong(`more than ${maxBits}`, maxBits);

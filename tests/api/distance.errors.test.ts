@@ -46,21 +46,21 @@ describe("POST /distance: unknown fields (strict objects)", () => {
 });
 
 describe("POST /distance: bad characters in a word", () => {
-  it("a non-binary character is refused at /a with the message naming its position (1-based)", async () => {
-    const p = expectFieldError(await call({ a: "10x1", b: "1001" }), "/a", /character 3\b.*"x"/);
+  it("a non-binary character is refused at /a with the message naming its position, counting from 0", async () => {
+    const p = expectFieldError(await call({ a: "10x1", b: "1001" }), "/a", /character 2 \(counting from 0\).*"x"/);
     expect(p.detail).toMatch(/^\/a: /);
   });
 
   it("a digit 2 in b is refused at /b with its position", async () => {
-    expectFieldError(await call({ a: "1001", b: "1012" }), "/b", /character 4\b.*"2"/);
+    expectFieldError(await call({ a: "1001", b: "1012" }), "/b", /character 3 \(counting from 0\).*"2"/);
   });
 
   it("a non-ASCII character is named as that character", async () => {
-    expectFieldError(await call({ a: "1é01", b: "1001" }), "/a", /character 2\b.*"é"/);
+    expectFieldError(await call({ a: "1é01", b: "1001" }), "/a", /character 1 \(counting from 0\).*"é"/);
   });
 
   it("a bad hex digit points into the hex field, naming its position", async () => {
-    expectFieldError(await call({ a: { hex: "fg" }, b: "1" }), "/a/hex", /character 2\b.*"g"/);
+    expectFieldError(await call({ a: { hex: "fg" }, b: "1" }), "/a/hex", /character 1 \(counting from 0\).*"g"/);
   });
 
   it.each([
@@ -72,7 +72,7 @@ describe("POST /distance: bad characters in a word", () => {
   });
 
   it("a bad word inside a codebook points at that word, naming the position", async () => {
-    expectFieldError(await call({ codebook: ["000", "0a0", "111"] }), "/codebook/1", /character 2\b/);
+    expectFieldError(await call({ codebook: ["000", "0a0", "111"] }), "/codebook/1", /character 1 \(counting from 0\)/);
   });
 });
 

@@ -152,7 +152,7 @@ describe("POST /encode: the messages", () => {
   });
 
   it("a non-binary character → /messages/0, naming the character and its position", async () => {
-    expectFieldError(await call({ code: hamming, messages: ["10a1"] }), "/messages/0", /character 3\b.*"a"/);
+    expectFieldError(await call({ code: hamming, messages: ["10a1"] }), "/messages/0", /character 2 \(counting from 0\).*"a"/);
   });
 
   it("an array entry of 2 → /messages/0/1", async () => {

@@ -34,12 +34,12 @@ describe("parseBits", () => {
     expect(parseBits({ hex: "0x", length: 0 }, MAX).length).toBe(0);
   });
 
-  it("names the position of a bad character (1-based)", () => {
+  it("names the position of a bad character, counting from 0 like bit positions", () => {
     const e = caught(() => parseBits("1011x", MAX));
-    expect(e.message).toContain("character 5");
+    expect(e.message).toContain("character 4 (counting from 0)");
     expect(e.message).toContain('"x"');
     expect(e.path).toEqual([]);
-    expect(caught(() => parseBits("10\t1", MAX)).message).toContain("character 3");
+    expect(caught(() => parseBits("10\t1", MAX)).message).toContain("character 2 (counting from 0)");
     expect(caught(() => parseBits("102", MAX)).message).toContain("only 0, 1, space and _");
   });
 
@@ -47,7 +47,7 @@ describe("parseBits", () => {
     expect(Array.from(parseBits([1, 0, 1], MAX))).toEqual([1, 0, 1]);
     const e = caught(() => parseBits([1, 0, 2, 1], MAX));
     expect(e.path).toEqual([2]);
-    expect(e.message).toContain("entry 2");
+    expect(e.message).toContain("entry 2 (counting from 0)");
     expect(caught(() => parseBits([0, "1"] as unknown as number[], MAX)).path).toEqual([1]);
     expect(caught(() => parseBits([0, true] as unknown as number[], MAX)).path).toEqual([1]);
     expect(caught(() => parseBits([0.5] as unknown as number[], MAX)).path).toEqual([0]);
@@ -73,7 +73,8 @@ describe("parseBits", () => {
   it("rejects bad hex digits with their position", () => {
     const e = caught(() => parseBits({ hex: "0x1g" }, MAX));
     expect(e.path).toEqual(["hex"]);
-    expect(e.message).toContain("character 4");
+    // "0x1g": the g is character 3 of the string, the 0x prefix included.
+    expect(e.message).toContain("character 3 (counting from 0)");
   });
 
   it("rejects other shapes", () => {
