@@ -155,9 +155,9 @@ export interface paths {
         put?: never;
         /**
          * Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain
-         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error, BER ≈ (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) (Gray, nearest-neighbour errors). The inverse is found by root finding (exact inverse for BPSK/QPSK).
+         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error; exact Gray BER by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), or with `berFormula: "nearest-neighbour"` the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))). The inverse is solved on the same formula: closed form for BPSK, QPSK and 4-QAM, else bisection on Eb/N0 in dB to 1e-10 dB.
          *
-         *     **Work and cost.** 256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point) + 64 × that per-point figure for a `targetBer` (root finding). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** 256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point; 2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -422,7 +422,7 @@ export interface components {
             /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
             length?: number;
         };
-        /** @description CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. Worked example: the bits of ASCII "123456789" written most significant bit first, "00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001", with preset CRC-32/ISO-HDLC (refin) give crc 0xcbf43926, the catalogue check value, exactly as { text: "123456789" } or { hex: "313233343536373839" } do. */
+        /** @description CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. */
         CrcCode: {
             /** @enum {string} */
             family: "crc";
@@ -437,17 +437,12 @@ export interface components {
             poly?: string | number;
             /** @description Initial register value; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             init?: string | number;
-            /** @description Reflect each input byte: it enters the register least significant bit first. Bits given as 0/1 are bytes written most significant bit first (unless `bitsAs` is "stream"), so each whole byte is reversed too. */
+            /** @description Reflect each input byte. */
             refin?: boolean;
             /** @description Reflect the final register. */
             refout?: boolean;
             /** @description Value XORed into the final register; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             xorout?: string | number;
-            /**
-             * @description How words written as bits meet the byte-wise model. "bytes" (default): bits are bytes written most significant bit first, as in a hex dump; with refin each whole byte enters the register reversed, and a message must be a whole number of bytes. "stream": the bits enter the register in the order written and refin reorders nothing (for messages that are not whole bytes). Responses write words the same way. Without refin both read the same.
-             * @enum {string}
-             */
-            bitsAs?: "bytes" | "stream";
         } & ((unknown | unknown) & {
             /**
              * @description discriminator enum property added by openapi-typescript
@@ -517,7 +512,7 @@ export interface components {
             /** @description 1 to 1024 messages of k bits (k symbols for Reed–Solomon; any length for CRC). */
             messages: components["schemas"]["Word"][];
         } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown);
-        /** @description Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). CRC: bytes as { text } (UTF-8) or { hex } (whole bytes), or bits as written (0/1 string or array, { hex, length } for the first `length` bits). By default (code.bitsAs "bytes") bits are read as bytes written most significant bit first, so with refin each whole byte is reversed as it enters the register and a message must be a whole number of bytes; code.bitsAs "stream" feeds the bits in the order written. Example: CRC-32/ISO-HDLC of "00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001" (ASCII 123456789) is 0xcbf43926, as of { text: "123456789" }. */
+        /** @description Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). CRC: bits in the order they enter the register, or bytes as { text } (UTF-8) or { hex }, each byte entering most significant bit first (least significant first when refin). */
         Word: string | number[] | {
             /**
              * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
@@ -543,13 +538,6 @@ export interface components {
                 /** @description The decoder detected that it could not decode: do not trust `message`. */
                 failure: boolean;
                 reason?: string;
-                /** @description CRC families: the two values the check compares (their XOR is the syndrome). */
-                crc?: {
-                    /** @description The CRC value the word carries, in hex. */
-                    received: string;
-                    /** @description The CRC of the word's message, in hex; equal to `received` when the word verifies. */
-                    computed: string;
-                };
             }[];
             failures: number;
         };
@@ -790,12 +778,13 @@ export interface components {
                 ber: number;
                 ser: number;
             }[];
-            /** @description true where the BER formula is exact; false for the Gray-mapping approximation. */
+            /** @description true where the BER formula is exact; false for an approximation (M-PSK's SER/log2 M, M-QAM's nearest-neighbour formula). */
             berExact: boolean;
             serExact: boolean;
+            /** @description The BER formula used, with its source. */
             berMethod: string;
             serMethod: string;
-            /** @description Eb/N0 at which the uncoded BER equals the target. */
+            /** @description Eb/N0 at which the uncoded BER (the formula of `berMethod`) equals the target: closed form for BPSK, QPSK and 4-QAM, else bisection to 1e-10 dB. */
             required?: {
                 targetBer: number;
                 ebN0Db: number;
@@ -822,7 +811,7 @@ export interface components {
             order?: 2;
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
-            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */
             targetBer?: number;
             /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
             code?: {
@@ -842,7 +831,7 @@ export interface components {
             order?: 4;
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
-            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */
             targetBer?: number;
             /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
             code?: {
@@ -862,7 +851,7 @@ export interface components {
             order: 2 | 4 | 8 | 16 | 32 | 64 | 128 | 256 | 512 | 1024;
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
-            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */
             targetBer?: number;
             /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
             code?: {
@@ -872,7 +861,7 @@ export interface components {
                 /** @description At most n − k + 1 (Singleton bound). */
                 dmin: number;
             };
-        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown)) | ({
+        } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown)) | ({
             /** @enum {string} */
             modulation: "qam";
             /**
@@ -880,9 +869,15 @@ export interface components {
              * @enum {number}
              */
             order: 4 | 16 | 64 | 256 | 1024 | 4096;
+            /**
+             * @description The BER formula, for the points and for `targetBer`: `exact` (default), Cho & Yoon's closed form for Gray-labelled square M-QAM (IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB).
+             * @default exact
+             * @enum {string}
+             */
+            berFormula: "exact" | "nearest-neighbour";
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
-            /** @description Find the Eb/N0 that gives this uncoded BER: below the BER at Eb/N0 = 0, which is ½ for BPSK and QPSK, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM. */
+            /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */
             targetBer?: number;
             /** @description A block code (n, k, dmin): adds its asymptotic coding gain. */
             code?: {
@@ -892,7 +887,7 @@ export interface components {
                 /** @description At most n − k + 1 (Singleton bound). */
                 dmin: number;
             };
-        } & (unknown & unknown & unknown & unknown & unknown & unknown)));
+        } & (unknown & unknown & unknown & unknown & unknown)));
         UsagePage: {
             /** @description Slug of the calling key's organisation. */
             org: string;
