@@ -422,7 +422,7 @@ export interface components {
             /** @description Take only the first `length` bits: from 4·digits − 3 to 4·digits, so that no whole digit is ignored (default: 4 per digit). */
             length?: number;
         };
-        /** @description CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. */
+        /** @description CRC in the Williams parameter model: width, poly, init, refin, refout, xorout; or a catalogue preset. Worked example: the bits of ASCII "123456789" written most significant bit first, "00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001", with preset CRC-32/ISO-HDLC (refin) give crc 0xcbf43926, the catalogue check value, exactly as { text: "123456789" } or { hex: "313233343536373839" } do. */
         CrcCode: {
             /** @enum {string} */
             family: "crc";
@@ -437,12 +437,17 @@ export interface components {
             poly?: string | number;
             /** @description Initial register value; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             init?: string | number;
-            /** @description Reflect each input byte. */
+            /** @description Reflect each input byte: it enters the register least significant bit first. Bits given as 0/1 are bytes written most significant bit first (unless `bitsAs` is "stream"), so each whole byte is reversed too. */
             refin?: boolean;
             /** @description Reflect the final register. */
             refout?: boolean;
             /** @description Value XORed into the final register; below 2^width: a hex string such as "0x04C11DB7" (needed above 2^53) or an integer. */
             xorout?: string | number;
+            /**
+             * @description How words written as bits meet the byte-wise model. "bytes" (default): bits are bytes written most significant bit first, as in a hex dump; with refin each whole byte enters the register reversed, and a message must be a whole number of bytes. "stream": the bits enter the register in the order written and refin reorders nothing (for messages that are not whole bytes). Responses write words the same way. Without refin both read the same.
+             * @enum {string}
+             */
+            bitsAs?: "bytes" | "stream";
         } & ((unknown | unknown) & {
             /**
              * @description discriminator enum property added by openapi-typescript
@@ -512,7 +517,7 @@ export interface components {
             /** @description 1 to 1024 messages of k bits (k symbols for Reed–Solomon; any length for CRC). */
             messages: components["schemas"]["Word"][];
         } & (unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown & unknown);
-        /** @description Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). CRC: bits in the order they enter the register, or bytes as { text } (UTF-8) or { hex }, each byte entering most significant bit first (least significant first when refin). */
+        /** @description Binary codes: a Bits value (0/1 string, 0/1 array or { hex, length }). Reed–Solomon: an array of symbols, or bits (m per symbol, most significant first). CRC: bytes as { text } (UTF-8) or { hex } (whole bytes), or bits as written (0/1 string or array, { hex, length } for the first `length` bits). By default (code.bitsAs "bytes") bits are read as bytes written most significant bit first, so with refin each whole byte is reversed as it enters the register and a message must be a whole number of bytes; code.bitsAs "stream" feeds the bits in the order written. Example: CRC-32/ISO-HDLC of "00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001" (ASCII 123456789) is 0xcbf43926, as of { text: "123456789" }. */
         Word: string | number[] | {
             /**
              * @description Hex digits, first digit's most significant bit first; optional 0x; spaces and underscores separate groups.
@@ -538,6 +543,13 @@ export interface components {
                 /** @description The decoder detected that it could not decode: do not trust `message`. */
                 failure: boolean;
                 reason?: string;
+                /** @description CRC families: the two values the check compares (their XOR is the syndrome). */
+                crc?: {
+                    /** @description The CRC value the word carries, in hex. */
+                    received: string;
+                    /** @description The CRC of the word's message, in hex; equal to `received` when the word verifies. */
+                    computed: string;
+                };
             }[];
             failures: number;
         };
