@@ -14,8 +14,8 @@ const db = await getDb();
 const orgId = await seedDemo(db);
 // One demo key at a time: the previous run's key is revoked (its plaintext was never stored).
 const old = await db.selectFrom("api_keys").select("id").where("org_id", "=", orgId).where("name", "=", "demo key").where("revoked_at", "is", null).execute();
-for (const k of old) await revokeKey(db, orgId, k.id, "demo");
-const { key } = await createKey(db, { orgId, name: "demo key", mode: "test", scopes: allScopes }, "demo");
+for (const k of old) await revokeKey(db, orgId, k.id, "cli");
+const { key } = await createKey(db, { orgId, name: "demo key", mode: "test", scopes: allScopes }, "cli");
 await closeDb();
 
 if (process.env.PARITAS_DEMO_SKIP_BUILD !== "1") {

@@ -9,6 +9,8 @@ export interface AuditInput {
   targetType: string;
   targetId: string | number;
   details?: Record<string, unknown>;
+  /** When the recorded change happened; now unless a seed replays a past one. */
+  at?: string;
 }
 
 export const insertAudit = (db: Db, a: AuditInput) =>
@@ -21,7 +23,7 @@ export const insertAudit = (db: Db, a: AuditInput) =>
       target_type: a.targetType,
       target_id: String(a.targetId),
       details: JSON.stringify(a.details ?? {}),
-      created_at: nowIso(),
+      created_at: a.at ?? nowIso(),
     })
     .execute();
 

@@ -1,11 +1,9 @@
+import { createHash, randomBytes } from "node:crypto";
 import type { Db } from "@/db";
-import type { NewApiKey } from "@/db/schema";
+import type { KeyMode, Role } from "@/db/schema";
 import { insertApiKey } from "@/db/queries/api-keys";
-import { insertAuthUser } from "@/db/queries/auth";
-import { insertAudit } from "@/db/queries/audit";
-import { findOrgBySlug, insertOrg } from "@/db/queries/orgs";
-import { insertMembership } from "@/db/queries/users";
-import { createKey } from "@/lib/api/key-service";
+import { insertAudit, type AuditInput } from "@/db/queries/audit";
+import { findOrgBySlug } from "@/db/queries/orgs";
 import { generateKey } from "@/lib/api/keys";
 import { allScopes } from "@/lib/api/scopes";
 import { hashPassword } from "@/lib/auth/passwords";
@@ -42,13 +40,32 @@ function rng(seed: number) {
   };
 }
 
-/** A key row with a fresh secret nobody is shown, for the keys the seed backdates or puts straight into a state. */
-async function insertSeedKey(tx: Db, row: Omit<NewApiKey, "prefix" | "key_hash">) {
-  const { prefix, hash } = generateKey(row.mode);
-  return insertApiKey(tx, { ...row, prefix, key_hash: hash });
-}
+/** The demo's history, in days before the seed runs; every row and ledger entry below takes its time from here. */
+const HISTORY = {
+  orgCreated: 120,
+  teoInvited: 119,
+  teoJoined: 118.6,
+  amaraInvited: 111,
+  amaraJoined: 110.8,
+  amaraToBilling: 95,
+  relayCreated: 90,
+  modemCreated: 60.2,
+  internCreated: 60,
+  ciCreated: 45,
+  benchCreated: 32,
+  modemRevoked: 12,
+  internExpired: 5,
+  relayRotated: 2,
+} as const;
+/** The shore station's relay overlap: the old key works for a week after the rotation. */
+const RELAY_OVERLAP_HOURS = 7 * 24;
 
-/** Seed the demo org once; later runs leave it as it is, except to give the demo people passwords they lack. Returns the org id. */
+/**
+ * Seed the demo org once; later runs leave it as it is, except to give the demo people passwords they lack. Returns the org id.
+ *
+ * The seed writes one history: each ledger entry at the time of the change it records, and in that
+ * order; people join before they make keys; a key's last use is its latest metered call.
+ */
 export async function seedDemo(db: Db, now = new Date()): Promise<number> {
   const existing = await findOrgBySlug(db, DEMO_ORG.slug);
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -62,79 +79,112 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       .execute();
     return existing.id;
   }
+  const ago = (days: number) => new Date(now.getTime() - days * DAY).toISOString();
   return db.transaction().execute(async (tx) => {
-    const org = await insertOrg(tx, { ...DEMO_ORG, plan: "team" });
-    const users = [];
-    for (const u of DEMO_USERS) {
-      const user = await insertAuthUser(tx, { email: u.email, name: u.name, passwordHash, emailVerified: now.toISOString() });
-      await insertMembership(tx, { orgId: org.id, userId: user.id, role: u.role });
-      users.push(user);
+    const org = await tx
+      .insertInto("orgs")
+      .values({ ...DEMO_ORG, plan: "team", created_at: ago(HISTORY.orgCreated) })
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    const audit = (days: number, actorId: number, a: Omit<AuditInput, "orgId" | "actor" | "at">) => insertAudit(tx, { ...a, orgId: org.id, actor: `user:${actorId}`, at: ago(days) });
+    const join = async (u: (typeof DEMO_USERS)[number], role: Role, days: number) => {
+      const user = await tx
+        .insertInto("users")
+        .values({ email: u.email, name: u.name, created_at: ago(days), password_hash: passwordHash, email_verified: ago(days) })
+        .returningAll()
+        .executeTakeFirstOrThrow();
+      await tx.insertInto("memberships").values({ org_id: org.id, user_id: user.id, role, created_at: ago(days) }).execute();
+      return user;
+    };
+    // The owner founds the org and invites the other two by e-mail; each accepts within hours.
+    const invite = async (email: string, role: Role, invitedDays: number, joinedDays: number) => {
+      const inv = await tx
+        .insertInto("invitations")
+        .values({
+          org_id: org.id,
+          email,
+          role,
+          token_hash: createHash("sha256").update(randomBytes(32)).digest("hex"),
+          invited_by_user_id: noor.id,
+          created_at: ago(invitedDays),
+          expires_at: ago(invitedDays - 7),
+          accepted_at: ago(joinedDays),
+          revoked_at: null,
+        })
+        .returningAll()
+        .executeTakeFirstOrThrow();
+      await audit(invitedDays, noor.id, { action: "member.invited", targetType: "invitation", targetId: inv.id, details: { email, role, replaced: [] } });
+      return inv;
+    };
+    const [noorInfo, teoInfo, amaraInfo] = DEMO_USERS;
+    const noor = await join(noorInfo!, "owner", HISTORY.orgCreated);
+    await audit(HISTORY.orgCreated, noor.id, { action: "org.created", targetType: "org", targetId: org.id, details: { name: org.name, plan: org.plan } });
+    const members = [];
+    for (const [info, role, invited, joined] of [
+      [teoInfo!, "developer", HISTORY.teoInvited, HISTORY.teoJoined],
+      [amaraInfo!, "developer", HISTORY.amaraInvited, HISTORY.amaraJoined],
+    ] as const) {
+      const inv = await invite(info.email, role, invited, joined);
+      const user = await join(info, role, joined);
+      await audit(joined, user.id, { action: "member.joined", targetType: "user", targetId: user.id, details: { email: info.email, role, invitationId: inv.id } });
+      members.push(user);
     }
-    const dev = users[1]!.id;
-    const ci = await createKey(tx, { orgId: org.id, name: "buoy firmware CI", mode: "live", scopes: allScopes, createdByUserId: dev }, `user:${dev}`);
-    const bench = await createKey(tx, { orgId: org.id, name: "bench rig", mode: "test", scopes: ["compute"], createdByUserId: dev }, `user:${dev}`);
-    // Keys in the other states: one revoked after a leak drill, one that expired.
-    for (const [name, state] of [["modem v1 (retired)", "revoked"], ["summer intern trial", "expired"]] as const) {
-      const k = await insertSeedKey(tx, {
+    const [teo, amara] = members as [(typeof members)[number], (typeof members)[number]];
+    // Amara joined to look at the API and took over the invoices a fortnight later.
+    await tx.updateTable("memberships").set({ role: "billing" }).where("org_id", "=", org.id).where("user_id", "=", amara.id).execute();
+    await audit(HISTORY.amaraToBilling, noor.id, { action: "member.role_changed", targetType: "user", targetId: amara.id, details: { email: amara.email, from: "developer", to: "billing" } });
+
+    /** A key with a fresh secret nobody is shown, created at its time in the history with the ledger entry createKey would write. */
+    const key = async (days: number, by: number, k: { name: string; mode: KeyMode; scopes: readonly string[]; expiresAt?: string }) => {
+      const { prefix, hash } = generateKey(k.mode);
+      const row = await insertApiKey(tx, {
         org_id: org.id,
-        name,
-        mode: "test",
-        scopes: allScopes.join(" "),
-        created_by_user_id: users[0]!.id,
-        created_at: new Date(now.getTime() - 60 * DAY).toISOString(),
-        expires_at: state === "expired" ? new Date(now.getTime() - 5 * DAY).toISOString() : null,
-        revoked_at: state === "revoked" ? new Date(now.getTime() - 12 * DAY).toISOString() : null,
+        name: k.name,
+        mode: k.mode,
+        prefix,
+        key_hash: hash,
+        scopes: k.scopes.join(" "),
+        created_by_user_id: by,
+        created_at: ago(days),
+        expires_at: k.expiresAt ?? null,
       });
-      await insertAudit(tx, {
-        orgId: org.id,
-        actor: `user:${users[0]!.id}`,
-        action: state === "revoked" ? "key.revoked" : "key.created",
-        targetType: "api_key",
-        targetId: k.id,
-        details: { prefix: k.prefix, name, mode: "test" },
-      });
-    }
-    // A live key in a rotation overlap: the shore station's relay key was replaced two days ago
-    // and the old one keeps working for five more days while the station picks up the new one.
-    const owner = users[0]!.id;
-    const oldRelay = await insertSeedKey(tx, {
+      await audit(days, by, { action: "key.created", targetType: "api_key", targetId: row.id, details: { name: row.name, mode: row.mode, prefix, scopes: k.scopes, expiresAt: row.expires_at } });
+      return row;
+    };
+    const oldRelay = await key(HISTORY.relayCreated, noor.id, { name: "shore station relay", mode: "live", scopes: ["compute"] });
+    // Keys in the other states: one revoked after a leak drill, one that expired.
+    const modem = await key(HISTORY.modemCreated, noor.id, { name: "modem v1 (retired)", mode: "test", scopes: allScopes });
+    await key(HISTORY.internCreated, noor.id, { name: "summer intern trial", mode: "test", scopes: allScopes, expiresAt: ago(HISTORY.internExpired) });
+    const ci = await key(HISTORY.ciCreated, teo.id, { name: "buoy firmware CI", mode: "live", scopes: allScopes });
+    const bench = await key(HISTORY.benchCreated, teo.id, { name: "bench rig", mode: "test", scopes: ["compute"] });
+    await tx.updateTable("api_keys").set({ revoked_at: ago(HISTORY.modemRevoked) }).where("id", "=", modem.id).execute();
+    await audit(HISTORY.modemRevoked, noor.id, { action: "key.revoked", targetType: "api_key", targetId: modem.id, details: { prefix: modem.prefix } });
+    // A live key in a rotation overlap: the shore station's relay key was replaced two days ago and
+    // the old one keeps working for five more days while the station picks up the new one.
+    const oldEndsAt = new Date(Date.parse(ago(HISTORY.relayRotated)) + RELAY_OVERLAP_HOURS * 3600_000).toISOString();
+    await tx.updateTable("api_keys").set({ expires_at: oldEndsAt }).where("id", "=", oldRelay.id).execute();
+    const { prefix: newPrefix, hash: newHash } = generateKey("live");
+    const newRelay = await insertApiKey(tx, {
       org_id: org.id,
-      name: "shore station relay",
+      name: oldRelay.name,
       mode: "live",
-      scopes: "compute",
-      created_by_user_id: owner,
-      created_at: new Date(now.getTime() - 90 * DAY).toISOString(),
-      last_used_at: new Date(now.getTime() - 3 * 3600_000).toISOString(),
-      expires_at: new Date(now.getTime() + 5 * DAY).toISOString(),
-    });
-    const newRelay = await insertSeedKey(tx, {
-      org_id: org.id,
-      name: "shore station relay",
-      mode: "live",
-      scopes: "compute",
-      created_by_user_id: owner,
-      created_at: new Date(now.getTime() - 2 * DAY).toISOString(),
+      prefix: newPrefix,
+      key_hash: newHash,
+      scopes: oldRelay.scopes,
+      created_by_user_id: noor.id,
+      created_at: ago(HISTORY.relayRotated),
+      expires_at: null,
       rotated_from_key_id: oldRelay.id,
     });
-    await insertAudit(tx, {
-      orgId: org.id,
-      actor: `user:${owner}`,
+    await audit(HISTORY.relayRotated, noor.id, {
       action: "key.rotated",
       targetType: "api_key",
       targetId: oldRelay.id,
-      details: {
-        prefix: oldRelay.prefix,
-        newKeyId: newRelay.id,
-        newPrefix: newRelay.prefix,
-        overlapHours: 7 * 24,
-        oldKeyEndsAt: oldRelay.expires_at,
-      },
+      details: { prefix: oldRelay.prefix, newKeyId: newRelay.id, newPrefix: newRelay.prefix, overlapHours: RELAY_OVERLAP_HOURS, oldKeyEndsAt: oldEndsAt },
     });
-    // The developer's keys predate the 30 days of traffic below.
-    await tx.updateTable("api_keys").set({ created_at: new Date(now.getTime() - 45 * DAY).toISOString() }).where("id", "=", ci.record.id).execute();
-    await tx.updateTable("api_keys").set({ created_at: new Date(now.getTime() - 32 * DAY).toISOString() }).where("id", "=", bench.record.id).execute();
 
-    // 30 days of CI traffic: heavier on weekdays, a few refused calls.
+    // 30 days of CI traffic: heavier on weekdays, a few refused calls. The shore station still
+    // calls with its old relay key a few times a day; the new one has not been used yet.
     const rand = rng(20261201);
     const rows = [];
     for (let d = 29; d >= 0; d--) {
@@ -142,12 +192,13 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       const weekday = day.getUTCDay() % 6 !== 0;
       for (const [endpoint, method, cost] of ENDPOINTS) {
         const calls = Math.round((weekday ? 18 : 4) * (0.5 + rand()) * (endpoint === "usage" ? 0.2 : 1));
-        for (let c = 0; c < calls; c++) {
+        const relayCalls = endpoint === "channels.bsc" ? 3 : 0;
+        for (let c = 0; c < calls + relayCalls; c++) {
           const status = rand() < 0.04 ? 422 : 200;
           const at = new Date(day.getTime() - Math.floor(rand() * 8 * 3600_000));
           rows.push({
             org_id: org.id,
-            api_key_id: rand() < 0.8 ? ci.record.id : bench.record.id,
+            api_key_id: c >= calls ? oldRelay.id : rand() < 0.8 ? ci.id : bench.id,
             endpoint,
             method,
             status,
@@ -161,10 +212,10 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       }
     }
     for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
-    // Each key was last used at its latest call.
-    for (const k of [ci.record, bench.record]) {
+    // Each key was last used at its latest call; keys without calls were never used.
+    for (const k of [ci, bench, oldRelay]) {
       const last = rows.filter((r) => r.api_key_id === k.id).reduce((a, r) => (r.created_at > a ? r.created_at : a), "");
-      if (last) await tx.updateTable("api_keys").set({ last_used_at: last }).where("id", "=", k.id).execute();
+      await tx.updateTable("api_keys").set({ last_used_at: last || null }).where("id", "=", k.id).execute();
     }
     return org.id;
   });

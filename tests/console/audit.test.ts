@@ -1,24 +1,33 @@
+import { readdirSync, readFileSync } from "node:fs";
+import { join } from "node:path";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { insertAudit } from "@/db/queries/audit";
+import { SENTENCES, type SentencePart } from "@/lib/console/audit";
 import { expectFieldError } from "../helpers/api";
-import { consoleCall, makeConsoleOrg, type ConsoleFixture } from "../helpers/console";
+import { consoleCall, inviteLinkTo, makeConsoleOrg, makePerson, type ConsoleFixture, type Person } from "../helpers/console";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
 
 interface Entry {
   id: number;
   at: string;
-  actor: { kind: string; id: string; userId?: number; email?: string };
+  actor: { kind: string; id: string; name: string; userId?: number; email?: string };
   action: string;
   targetType: string;
   targetId: string;
   details: Record<string, unknown>;
+  sentence: SentencePart[];
 }
 
 let fx: ConsoleFixture;
 /** Actions this file performs through the console, in order. */
 const performed: string[] = [];
 let newKeyId: number;
+let keyPrefix: string;
+let successorPrefix: string;
+let keyEnds: string;
+let overlapEnds: string;
+let joiner: Person;
 
 beforeAll(async () => {
   fx = await makeConsoleOrg();
@@ -28,14 +37,26 @@ beforeAll(async () => {
     performed.push(action);
     return res;
   };
-  await ok(await consoleCall("POST", `${org}/invitations`, { cookie: fx.owner.cookie, body: { email: "audit.new@example.com", role: "developer" } }), "member.invited");
-  newKeyId = (await ok(await consoleCall("POST", `${org}/keys`, { cookie: fx.developer.cookie, body: { name: "audited", scopes: ["compute"], mode: "test" } }), "key.created")).body.record.id;
-  await ok(await consoleCall("POST", `${org}/keys/${newKeyId}/rotate`, { cookie: fx.developer.cookie, body: { overlapHours: 2 } }), "key.rotated");
+  joiner = await makePerson(fx.db, "joiner");
+  await ok(await consoleCall("POST", `${org}/invitations`, { cookie: fx.owner.cookie, body: { email: joiner.email, role: "developer" } }), "member.invited");
+  await ok(await consoleCall("POST", "/api/console/invitations/accept", { cookie: joiner.cookie, body: { token: inviteLinkTo(joiner.email).token } }), "member.joined");
+  keyEnds = new Date(Date.now() + 30 * 86_400_000).toISOString();
+  const created = (await ok(await consoleCall("POST", `${org}/keys`, { cookie: fx.developer.cookie, body: { name: "audited", scopes: ["compute"], mode: "test", expiresAt: keyEnds } }), "key.created")).body.record;
+  newKeyId = created.id;
+  keyPrefix = created.prefix;
+  const rotated = (await ok(await consoleCall("POST", `${org}/keys/${newKeyId}/rotate`, { cookie: fx.developer.cookie, body: { overlapHours: 2 } }), "key.rotated")).body;
+  successorPrefix = rotated.record.prefix;
+  overlapEnds = rotated.previous.expiresAt;
   await ok(await consoleCall("POST", `${org}/keys/${newKeyId}/revoke`, { cookie: fx.owner.cookie }), "key.revoked");
   await ok(await consoleCall("PATCH", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie, body: { role: "billing" } }), "member.role_changed");
   await ok(await consoleCall("DELETE", `${org}/invitations/${fx.invitation.id}`, { cookie: fx.coOwner.cookie }), "invitation.revoked");
   await ok(await consoleCall("DELETE", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie }), "member.removed");
+  await ok(await consoleCall("DELETE", `${org}/members/${joiner.id}?revokeKeys=true`, { cookie: joiner.cookie }), "member.removed");
   await ok(await consoleCall("POST", `${org}/transfer`, { cookie: fx.coOwner.cookie, body: { userId: fx.billing.id } }), "org.ownership_transferred");
+  // The demo seed records the org's founding (db/seed/demo.ts), and a newer version may write actions this one does not know.
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: `user:${fx.owner.id}`, action: "org.created", targetType: "org", targetId: fx.org.id, details: { name: fx.org.name, plan: "team" } });
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: `user:${fx.owner.id}`, action: "widget.polished", targetType: "widget_part", targetId: 7 });
+  performed.push("org.created", "widget.polished");
   // Scripts act too.
   for (const actor of ["cli", "demo", "bench", "system"]) {
     await insertAudit(fx.db, { orgId: fx.org.id, actor, action: "key.created", targetType: "api_key", targetId: 1 });
@@ -77,15 +98,15 @@ describe("the audit log", () => {
   it("resolves actors: people to their e-mail, the CLI, and the product's own scripts as system", async () => {
     const { entries } = await audit({ limit: 200 });
     const rotated = entries.find((e) => e.action === "key.rotated")!;
-    expect(rotated.actor).toEqual({ kind: "user", id: `user:${fx.developer.id}`, userId: fx.developer.id, email: fx.developer.email });
+    expect(rotated.actor).toEqual({ kind: "user", id: `user:${fx.developer.id}`, userId: fx.developer.id, name: "developer", email: fx.developer.email });
     expect(rotated).toMatchObject({ targetType: "api_key", targetId: String(newKeyId), details: { overlapHours: 2 } });
     expect(rotated.at).toMatch(/^\d{4}-\d\d-\d\dT/);
     const scripted = entries.slice(0, 4).map((e) => e.actor);
     expect(scripted).toEqual([
-      { kind: "system", id: "system" },
-      { kind: "system", id: "bench" },
-      { kind: "system", id: "demo" },
-      { kind: "cli", id: "cli" },
+      { kind: "system", id: "system", name: "the system" },
+      { kind: "system", id: "bench", name: "the system" },
+      { kind: "system", id: "demo", name: "the system" },
+      { kind: "cli", id: "cli", name: "the operator CLI" },
     ]);
   });
 
@@ -93,7 +114,7 @@ describe("the audit log", () => {
     const rotations = await everything({ action: "key.rotated" });
     expect(rotations.map((e) => e.action)).toEqual(["key.rotated"]);
     const byOwner = await everything({ actor: `user:${fx.owner.id}` });
-    expect(byOwner.map((e) => e.action)).toEqual(["member.removed", "member.role_changed", "key.revoked", "member.invited", "key.created"]);
+    expect(byOwner.map((e) => e.action)).toEqual(["widget.polished", "org.created", "member.removed", "member.role_changed", "key.revoked", "member.invited", "key.created"]);
     const both = await everything({ actor: `user:${fx.owner.id}`, action: "key.created" });
     expect(both).toHaveLength(1);
     expect(both[0]!.targetId).toBe(String(fx.keys.owner.record.id));
@@ -129,5 +150,85 @@ describe("the audit log", () => {
   ])("422 for %s", async (_name, query, pointer) => {
     const qs = new URLSearchParams(Object.entries(query).map(([k, v]) => [k, String(v)])).toString();
     expectFieldError(await consoleCall("GET", `/api/console/orgs/${fx.org.slug}/audit?${qs}`, { cookie: fx.owner.cookie }), pointer);
+  });
+});
+
+/** A sentence as text, with moments as [ISO] (the browser formats them in the reader's zone). */
+const text = (parts: SentencePart[]) => parts.map((p) => (typeof p === "string" ? p : "at" in p ? `[${p.at}]` : p.text)).join("");
+const links = (parts: SentencePart[]) => parts.flatMap((p) => (typeof p === "object" && "href" in p && p.href ? [[p.text, p.href]] : []));
+
+describe("each entry as a sentence", () => {
+  let entries: Entry[];
+  let members: string;
+  let keysPage: string;
+  beforeAll(async () => {
+    entries = await everything();
+    members = `/console/${fx.org.slug}/members`;
+    keysPage = `/console/${fx.org.slug}/keys`;
+  });
+  const one = (action: string, pick: (e: Entry) => boolean = () => true) => {
+    const found = entries.filter((e) => e.action === action && pick(e));
+    expect(found, action).toHaveLength(1);
+    return found[0]!;
+  };
+
+  it("names keys by name and prefix, linked to the keys page, with their scopes and end", () => {
+    const created = one("key.created", (e) => e.targetId === String(newKeyId));
+    expect(text(created.sentence)).toBe(`developer created the test key “audited” (${keyPrefix}…) with the scope compute, to work until [${keyEnds}].`);
+    expect(links(created.sentence)).toEqual([
+      ["developer", members],
+      [`${keyPrefix}…`, keysPage],
+    ]);
+    const fixtureKey = one("key.created", (e) => e.actor.id === `user:${fx.owner.id}`);
+    expect(text(fixtureKey.sentence)).toBe(`owner created the test key “owner key” (${fx.keys.owner.record.prefix}…) with the scopes compute and usage:read.`);
+    // The old key's overlap was cut short by the revocation that followed.
+    expect(text(one("key.rotated").sentence)).toBe(`developer rotated the key “audited” (${keyPrefix}…) to ${successorPrefix}…; the old key was to work until [${overlapEnds}].`);
+    expect(links(one("key.rotated").sentence).map(([, href]) => href)).toEqual([members, keysPage, keysPage]);
+    expect(text(one("key.revoked").sentence)).toBe(`owner revoked the key “audited” (${keyPrefix}…); it stopped working at once.`);
+    // Prefixes read as code, not as words.
+    expect(one("key.revoked").sentence).toContainEqual({ text: `${keyPrefix}…`, style: "code", href: keysPage });
+  });
+
+  it("names people by name, linked to the people page only while they belong to the org", async () => {
+    const invitee = (await fx.db.selectFrom("invitations").select("email").where("id", "=", fx.invitation.id).executeTakeFirstOrThrow()).email;
+    expect(text(one("org.created").sentence)).toBe("owner created the organisation Console org.");
+    expect(text(one("member.invited").sentence)).toBe(`owner invited ${joiner.email} to join as a developer.`);
+    expect(one("member.invited").sentence).toContainEqual({ text: joiner.email, style: "email" });
+    expect(text(one("member.joined").sentence)).toBe("joiner joined as a developer.");
+    expect(text(one("invitation.revoked").sentence)).toBe(`co-owner withdrew the invitation to ${invitee}.`);
+    expect(text(one("member.role_changed").sentence)).toBe("owner changed the role of spare from developer to billing admin.");
+    expect(text(one("member.removed", (e) => e.targetId === String(fx.spare.id)).sentence)).toBe("owner removed spare (billing admin); the keys they created keep working.");
+    expect(text(one("member.removed", (e) => e.targetId === String(joiner.id)).sentence)).toBe("joiner left the organisation and revoked every working key they had created.");
+    const handover = one("org.ownership_transferred");
+    expect(text(handover.sentence)).toBe("co-owner handed ownership to billing and became a developer.");
+    expect(links(handover.sentence)).toEqual([
+      ["co-owner", members],
+      ["billing", members],
+    ]);
+    // Spare and joiner have left: their names stay, without a link to a page that no longer lists them.
+    expect(links(one("member.role_changed").sentence)).toEqual([["owner", members]]);
+    expect(links(one("member.joined").sentence)).toEqual([]);
+  });
+
+  it("names scripts as the operator CLI or the system, and still writes a sentence for an action it does not know", () => {
+    const scripted = entries.filter((e) => e.actor.kind !== "user").map((e) => text(e.sentence));
+    const ownerKey = `the key “owner key” (${fx.keys.owner.record.prefix}…)`;
+    expect(scripted).toEqual([`The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The operator CLI created ${ownerKey}.`]);
+    expect(text(one("widget.polished").sentence)).toBe("owner recorded widget.polished on widget part 7.");
+  });
+
+  it("has a sentence of its own for every action the code writes", () => {
+    // Every `action: "…"` literal next to an audit write in lib/, scripts/ and the demo seed.
+    const root = join(__dirname, "../..");
+    const sources = ["lib", "scripts", "db/seed"].flatMap((dir) =>
+      readdirSync(join(root, dir), { recursive: true, encoding: "utf8" })
+        .filter((f) => f.endsWith(".ts"))
+        .map((f) => readFileSync(join(root, dir, f), "utf8")),
+    );
+    const written = new Set(sources.flatMap((src) => [...src.matchAll(/action: "([a-z_]+\.[a-z_]+)"/g)].map((m) => m[1]!)));
+    expect(written.size).toBeGreaterThanOrEqual(10);
+    expect([...written].filter((a) => !(a in SENTENCES))).toEqual([]);
+    // …and this file checks each one's sentence above.
+    expect([...written].filter((a) => !performed.includes(a))).toEqual([]);
   });
 });

@@ -1,13 +1,15 @@
 /**
  * The demo scenario (db/seed/demo.ts) holds what the README promises a newcomer: three people
  * in three roles who can sign in with the listed password, keys in every state the console
- * shows, and 30 UTC days of traffic that is consistent with those keys.
+ * shows, 30 UTC days of traffic that is consistent with those keys, and one history that the
+ * ledger, the people and the keys tell alike.
  */
 import { beforeAll, describe, expect, test } from "vitest";
 import { getDb, type Db } from "@/db";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
 import type { Org } from "@/db/schema";
 import { verifyPassword } from "@/lib/auth/passwords";
+import { listAuditEntries } from "@/lib/console/audit";
 import { listOrgKeys } from "@/lib/console/keys";
 
 let db: Db;
@@ -67,6 +69,94 @@ describe("demo scenario", () => {
     }
     // Refused calls cost nothing (DESIGN.md's metering rule).
     expect(events.filter((e) => e.status >= 400).every((e) => e.units === 0)).toBe(true);
+  });
+
+  test("every key's last use is its latest call, and a key without calls was never used", async () => {
+    const keys = await db.selectFrom("api_keys").select(["id", "name", "last_used_at"]).where("org_id", "=", org.id).execute();
+    const events = await db.selectFrom("usage_events").select(["api_key_id", "created_at"]).where("org_id", "=", org.id).execute();
+    for (const k of keys) {
+      const latest = events.filter((e) => e.api_key_id === k.id).reduce<string | null>((a, e) => (a === null || e.created_at > a ? e.created_at : a), null);
+      expect(k.last_used_at, k.name).toBe(latest);
+    }
+    // The story has both: keys in use and one never used (the relay's successor, not yet picked up).
+    expect(keys.some((k) => k.last_used_at === null)).toBe(true);
+    expect(keys.filter((k) => k.last_used_at !== null).length).toBeGreaterThanOrEqual(3);
+  });
+
+  test("the ledger records each change at its time, in order, and people join before they make keys", async () => {
+    const entries = await db.selectFrom("audit_log").selectAll().where("org_id", "=", org.id).orderBy("id").execute();
+    const keys = await db.selectFrom("api_keys").selectAll().where("org_id", "=", org.id).execute();
+    const memberships = await db.selectFrom("memberships").selectAll().where("org_id", "=", org.id).execute();
+    const invitations = await db.selectFrom("invitations").selectAll().where("org_id", "=", org.id).execute();
+    const joinedAt = new Map(memberships.map((m) => [m.user_id, m.created_at]));
+    const details = (e: (typeof entries)[number]) => JSON.parse(e.details) as Record<string, unknown>;
+    const of = (action: string) => entries.filter((e) => e.action === action);
+
+    // Newest id is the newest change, and nothing happened after the seed ran.
+    const times = entries.map((e) => e.created_at);
+    expect(times).toEqual([...times].sort());
+    expect(Date.parse(times.at(-1)!)).toBeLessThanOrEqual(now.getTime());
+    // The history is spread over months, not written in one instant.
+    expect(Date.parse(times.at(-1)!) - Date.parse(times[0]!)).toBeGreaterThan(90 * 86_400_000);
+
+    const founded = of("org.created");
+    expect(founded).toHaveLength(1);
+    expect(founded[0]!.created_at).toBe(org.created_at);
+    expect(founded[0]!.actor).toBe(`user:${(await owner()).id}`);
+    expect(joinedAt.get((await owner()).id)).toBe(org.created_at);
+
+    // Everyone else came in through an invitation: invited, then joined when they accepted it.
+    expect(of("member.joined")).toHaveLength(memberships.length - 1);
+    for (const j of of("member.joined")) {
+      const inv = invitations.find((i) => i.id === details(j).invitationId)!;
+      expect(j.actor).toBe(`user:${j.target_id}`);
+      expect(j.created_at).toBe(joinedAt.get(Number(j.target_id)));
+      expect(j.created_at).toBe(inv.accepted_at);
+      const invited = of("member.invited").find((e) => e.target_id === String(inv.id))!;
+      expect(invited.created_at).toBe(inv.created_at);
+      expect(invited.created_at < j.created_at).toBe(true);
+    }
+    // Role changes end in the role people hold now.
+    for (const m of memberships) {
+      const last = of("member.role_changed").filter((e) => e.target_id === String(m.user_id)).at(-1);
+      if (last) expect(details(last).to).toBe(m.role);
+    }
+    expect(of("member.role_changed").length).toBeGreaterThan(0);
+
+    for (const k of keys) {
+      // Each key starts with one entry by its creator at its creation: created, or rotated into being.
+      const start = k.rotated_from_key_id === null ? of("key.created").filter((e) => e.target_id === String(k.id)) : of("key.rotated").filter((e) => details(e).newKeyId === k.id);
+      expect(start, k.name).toHaveLength(1);
+      expect(start[0]!.created_at, k.name).toBe(k.created_at);
+      expect(start[0]!.actor, k.name).toBe(`user:${k.created_by_user_id}`);
+      expect(joinedAt.get(k.created_by_user_id!)! < k.created_at, `${k.name} made after its creator joined`).toBe(true);
+      const revoked = of("key.revoked").filter((e) => e.target_id === String(k.id));
+      expect(revoked.map((e) => e.created_at), k.name).toEqual(k.revoked_at ? [k.revoked_at] : []);
+      if (k.rotated_from_key_id !== null) {
+        const old = keys.find((o) => o.id === k.rotated_from_key_id)!;
+        expect(details(start[0]!)).toMatchObject({ prefix: old.prefix, newPrefix: k.prefix, oldKeyEndsAt: old.expires_at });
+        expect(Date.parse(old.expires_at!) - Date.parse(k.created_at)).toBe((details(start[0]!).overlapHours as number) * 3600_000);
+      }
+    }
+    // Every entry is one of the above.
+    expect(new Set(entries.map((e) => e.action))).toEqual(new Set(["org.created", "member.invited", "member.joined", "member.role_changed", "key.created", "key.revoked", "key.rotated"]));
+  });
+
+  test("each actor has one name: the ledger calls people by their names, and keys by the creator the keys page shows", async () => {
+    const { entries } = await listAuditEntries(db, org, { limit: 200 });
+    const users = await db.selectFrom("users").select(["id", "name"]).where("email", "in", DEMO_USERS.map((u) => u.email)).execute();
+    const names = new Map(users.map((u) => [`user:${u.id}`, u.name]));
+    for (const e of entries) {
+      expect(e.actor.kind).toBe("user");
+      expect(e.actor.name).toBe(names.get(e.actor.id));
+      // The sentence opens with the same name.
+      expect(e.sentence[0]).toMatchObject({ text: e.actor.name });
+    }
+    const keys = await listOrgKeys(db, org, await owner());
+    for (const k of keys) {
+      const start = entries.find((e) => (e.action === "key.created" && e.targetId === String(k.id)) || (e.action === "key.rotated" && e.details.newKeyId === k.id))!;
+      expect(start.actor.id, k.name).toBe(`user:${k.createdBy!.id}`);
+    }
   });
 
   test("seeding again changes nothing", async () => {

@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import Link from "next/link";
 import { useId, useState } from "react";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
@@ -12,8 +13,9 @@ import { formatDateTime, formatRelative } from "@/lib/console-client/format";
 import { queryKeys } from "@/lib/console-client/query-keys";
 import type { AuditEntry } from "@/lib/console-client/types";
 
-/** Every action the console and the operator CLI write, in plain words. */
+/** Every action the console, the operator CLI and the demo seed write, in plain words (the filter's choices). */
 const ACTIONS: Record<string, string> = {
+  "org.created": "created the organisation",
   "key.created": "created a key",
   "key.rotated": "rotated a key",
   "key.revoked": "revoked a key",
@@ -27,44 +29,36 @@ const ACTIONS: Record<string, string> = {
 
 const PAGE_SIZES = [10, 25, 50, 100] as const;
 
-function Actor({ a }: { a: AuditEntry["actor"] }) {
-  if (a.kind !== "user") return a.kind === "cli" ? <span>operator CLI</span> : <span className="text-ink-2">system</span>;
-  return a.email ? <Email address={a.email} /> : <span>user #{a.userId}</span>;
-}
-
-const asRecord = (v: unknown): Record<string, unknown> => (typeof v === "object" && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : {});
-
-function Target({ e }: { e: AuditEntry }) {
-  const d = asRecord(e.details);
-  if (e.targetType === "api_key")
-    return (
-      <span>
-        key {typeof d.prefix === "string" ? <code className="font-mono text-xs">{d.prefix}…</code> : `#${e.targetId}`}
-      </span>
-    );
-  if (e.targetType === "user" || e.targetType === "invitation")
-    return typeof d.email === "string" ? <Email address={d.email} /> : <span>{`${e.targetType} #${e.targetId}`}</span>;
-  if (!e.targetType) return <span className="text-ink-2">—</span>;
+/** The server writes the sentence; here its names become links and its moments local times. */
+function Sentence({ parts }: { parts: AuditEntry["sentence"] }) {
   return (
-    <span>
-      {e.targetType} {e.targetId !== null ? `#${e.targetId}` : ""}
-    </span>
-  );
-}
-
-/** The rest of the details, as short name: value pairs (the prefix and e-mail already show as the target). */
-function Details({ e }: { e: AuditEntry }) {
-  const pairs = Object.entries(asRecord(e.details)).filter(([k, v]) => v !== null && v !== undefined && !(k === "prefix" || (k === "email" && e.targetType !== "api_key")));
-  if (pairs.length === 0) return <span className="text-ink-2">—</span>;
-  return (
-    <dl className="flex flex-col gap-0.5 text-xs">
-      {pairs.map(([k, v]) => (
-        <div key={k} className="flex flex-wrap gap-x-1.5">
-          <dt className="text-ink-2">{k}</dt>
-          <dd className="font-mono [overflow-wrap:anywhere]">{typeof v === "string" && /^\d{4}-\d\d-\d\dT/.test(v) ? formatDateTime(v) : Array.isArray(v) ? (v.length ? v.join(", ") : "none") : String(typeof v === "object" ? JSON.stringify(v) : v)}</dd>
-        </div>
-      ))}
-    </dl>
+    <p className="leading-relaxed">
+      {parts.map((p, i) => {
+        if (typeof p === "string") return p;
+        if ("at" in p)
+          return (
+            <time key={i} dateTime={p.at} className="whitespace-nowrap">
+              {formatDateTime(p.at)}
+            </time>
+          );
+        const body = p.style === "code" ? <code className="font-mono text-[0.8125rem]">{p.text}</code> : p.style === "email" ? (
+            <span data-address="">
+              <Email address={p.text} />
+            </span>
+          ) : (
+            p.text
+          );
+        return p.href ? (
+          <Link key={i} href={p.href} className="font-medium">
+            {body}
+          </Link>
+        ) : (
+          <span key={i} className={p.style ? undefined : "font-medium"}>
+            {body}
+          </span>
+        );
+      })}
+    </p>
   );
 }
 
@@ -168,38 +162,27 @@ function Ledger({ org }: { org: string }) {
       ) : (
         <div className={`${panel} overflow-hidden`}>
           <div className="overflow-x-auto">
-            <table className="w-full min-w-[44rem] border-collapse text-sm">
+            <table className="w-full border-collapse text-sm max-md:block">
               <caption className="sr-only">Ledger entries, newest first{page > 0 ? `, page ${page + 1}` : ""}</caption>
-              <thead className={tableHead}>
+              <thead className={`${tableHead} max-md:sr-only`}>
                 <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">When</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Who</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Did</th>
-                  <th scope="col" className="px-3 py-2 font-medium">To</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Details</th>
+                  <th scope="col" className="w-44 px-3 py-2 font-medium">When</th>
+                  <th scope="col" className="px-3 py-2 font-medium">What happened</th>
                 </tr>
               </thead>
-              <tbody className={audit.isPlaceholderData ? "opacity-60" : undefined}>
+              <tbody className={`max-md:block ${audit.isPlaceholderData ? "opacity-60" : ""}`}>
                 {audit.data.entries.map((e) => (
-                  <tr key={e.id} className="border-t border-rule align-top">
-                    <td className="px-3 py-2 whitespace-nowrap">
-                      <time dateTime={e.at} title={formatDateTime(e.at)}>
+                  <tr key={e.id} className="border-t border-rule align-top max-md:block max-md:px-3 max-md:py-2.5">
+                    <td className="px-3 py-2.5 max-md:flex max-md:flex-wrap max-md:items-baseline max-md:gap-x-2 max-md:p-0">
+                      <time dateTime={e.at} className="whitespace-nowrap md:block">
                         {formatDateTime(e.at)}
                       </time>
-                      <span className="block text-xs text-ink-2">{formatRelative(e.at)}</span>
+                      <span className="text-xs whitespace-nowrap text-ink-2 md:block">
+                        {formatRelative(e.at)} · <code className="font-mono">{e.action}</code>
+                      </span>
                     </td>
-                    <td className="px-3 py-2">
-                      <Actor a={e.actor} />
-                    </td>
-                    <td className="px-3 py-2">
-                      <span className="block">{ACTIONS[e.action] ?? e.action}</span>
-                      <code className="font-mono text-xs text-ink-2">{e.action}</code>
-                    </td>
-                    <td className="px-3 py-2">
-                      <Target e={e} />
-                    </td>
-                    <td className="px-3 py-2">
-                      <Details e={e} />
+                    <td className="px-3 py-2.5 max-md:block max-md:p-0 max-md:pt-1">
+                      <Sentence parts={e.sentence} />
                     </td>
                   </tr>
                 ))}
