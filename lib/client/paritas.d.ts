@@ -107,7 +107,7 @@ export interface paths {
         put?: never;
         /**
          * Flip counts, block error and post-decoding BER on a binary symmetric channel
-         * @description Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate.
+         * @description Exact binomial probabilities computed in log space, accurate for n up to 10^6 and p down to 1e-15; `log10` stays finite when a probability is below the double range. With n and p alone: the flip count's mean, standard deviation and most likely value, and a `more` note naming what the optional fields add. With `flips`: the probabilities of exactly, at most and more than that many flips. With `t`: the block error probability of a t-error-correcting length-n code under bounded-distance decoding, and the usual post-decoding BER estimate.
          *
          *     **Work and cost.** N + 64: the binomial sums run over at most n terms (always on the event loop; 1 unit). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
@@ -659,6 +659,24 @@ export interface components {
                 /** @enum {string} */
                 unit: "bits per channel use";
             };
+            /** @description The number of flipped bits in n, Bin(n, p): always given. */
+            flipCount: {
+                /** @description n·p. */
+                mean: number;
+                /** @description √(n·p·(1 − p)). */
+                standardDeviation: number;
+                /** @description ⌊(n + 1)p⌋ (at most n): the number of flips with the highest probability. */
+                mostLikely: number;
+                /** @description P(exactly `mostLikely` flips). */
+                mostLikelyProbability: {
+                    /** @description The probability (0 only when it is below the smallest double, about 1e-308, or impossible). */
+                    value: number;
+                    /** @description log10 of the probability; null only when the event is impossible. */
+                    log10: number | null;
+                };
+                /** @description When (n + 1)p is a whole number, (n + 1)p − 1 flips are exactly as likely. */
+                tiedWith?: number;
+            };
             /** @description Binomial(n, p) probabilities of the number of flipped bits. */
             flips?: {
                 i: number;
@@ -683,6 +701,8 @@ export interface components {
                     log10: number | null;
                 };
             };
+            /** @description Which optional request fields would add what; absent when all were given. */
+            more?: string;
             caution: string;
         };
         Probability: {

@@ -36,3 +36,23 @@ export function bscPostDecodingBer(n: number, t: number, p: number): Tail {
   // p·e^upper rounds once less than e^{ln p + upper}; p ≤ 1, so it underflows only when the sum does.
   return { value: p * Math.exp(upper), log10: (Math.log(p) + upper) / Math.LN10 };
 }
+
+/**
+ * The number of bit flips in n uses of a BSC with crossover p, Bin(n, p): mean n·p, standard deviation √(n·p·(1 − p)),
+ * most likely count ⌊(n + 1)p⌋ (at most n) with its probability; when (n + 1)p is a whole number from 1 to n,
+ * (n + 1)p − 1 is as likely (Feller, An Introduction to Probability Theory, vol. 1, 3rd ed., 1968, §VI.3, from memory).
+ */
+export function bscFlipStatistics(n: number, p: number): { mean: number; standardDeviation: number; mostLikely: number; mostLikelyProbability: Tail; tiedWith?: number } {
+  if (!Number.isInteger(n) || n < 1) throw new InputError(`n must be an integer ≥ 1; got ${n}`);
+  if (!(p >= 0 && p <= 1)) throw new InputError(`p must be a probability from 0 to 1; got ${p}`);
+  const np1 = (n + 1) * p;
+  const mostLikely = Math.min(n, Math.floor(np1));
+  const tie = np1 === mostLikely && mostLikely >= 1 && p < 1;
+  return {
+    mean: n * p,
+    standardDeviation: Math.sqrt(n * p * (1 - p)),
+    mostLikely,
+    mostLikelyProbability: fromLn(logBinomialPmf(n, mostLikely, p)),
+    ...(tie ? { tiedWith: mostLikely - 1 } : {}),
+  };
+}
