@@ -155,9 +155,9 @@ export interface paths {
         put?: never;
         /**
          * Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain
-         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). Square M-QAM: exact symbol error; exact Gray BER by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), or with `berFormula: "nearest-neighbour"` the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))). The inverse is solved on the same formula: closed form for BPSK, QPSK and 4-QAM, else bisection on Eb/N0 in dB to 1e-10 dB.
+         * @description BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral; exact Gray BER up to 16-PSK as a sum over decision sectors of Craig-type integrals (Lee 1986), else (or with `berFormula: "nearest-neighbour"`) BER ≈ SER/log2 M. Square M-QAM: exact symbol error; exact Gray BER by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), or with `berFormula: "nearest-neighbour"` the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))). The inverse is solved on the same formula: closed form for BPSK, QPSK and 4-QAM, else bisection on Eb/N0 in dB to 1e-10 dB.
          *
-         *     **Work and cost.** 256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point; 2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** 256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point, and 2^16·max(1, M/4) for its exact BER, M/2 integrals; 2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -881,6 +881,11 @@ export interface components {
              * @enum {number}
              */
             order: 2 | 4 | 8 | 16 | 32 | 64 | 128 | 256 | 512 | 1024;
+            /**
+             * @description The BER formula, for the points and for `targetBer`: `exact` (when left out, up to 16-PSK), the Gray BER as a sum over the decision sectors of the probability of each times the mean Hamming distance of labels that far apart (Lee, IEEE Trans. Commun. 34(5), 1986); `nearest-neighbour` (when left out above 16-PSK, the only formula there), SER/log2 M: symbol errors to adjacent points only, one wrong bit each.
+             * @enum {string}
+             */
+            berFormula?: "exact" | "nearest-neighbour";
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
             /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */
@@ -902,11 +907,10 @@ export interface components {
              */
             order: 4 | 16 | 64 | 256 | 1024 | 4096;
             /**
-             * @description The BER formula, for the points and for `targetBer`: `exact` (default), Cho & Yoon's closed form for Gray-labelled square M-QAM (IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB).
-             * @default exact
+             * @description The BER formula, for the points and for `targetBer`: `exact` (when left out), Cho & Yoon's closed form for Gray-labelled square M-QAM (IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB).
              * @enum {string}
              */
-            berFormula: "exact" | "nearest-neighbour";
+            berFormula?: "exact" | "nearest-neighbour";
             /** @description Eb/N0 in dB, or a sweep of up to 1000 values. */
             ebN0Db?: number | number[];
             /** @description Find the Eb/N0 that gives this uncoded BER, on the BER formula the response names: below the BER at Eb/N0 = 0, which is ½ for BPSK, QPSK and exact M-QAM, (M − 1)/(M·log2 M) for M-PSK and (2/log2 M)(1 − 1/√M) for M-QAM's nearest-neighbour formula. */

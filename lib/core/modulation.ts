@@ -79,12 +79,79 @@ export function pskSymbolErrorRate(order: number, ebN0: number): { value: number
   return { value: scale * (whole.value + part.value), absError: scale * (whole.absError + part.absError) };
 }
 
-/** Which BER formula serves square M-QAM: Cho & Yoon's exact sum, or the nearest-neighbour approximation. */
-export type QamBerFormula = "exact" | "nearest-neighbour";
-/** The QAM BER formulas by name; the first is the default. */
-export const QAM_BER_FORMULAS: readonly QamBerFormula[] = ["exact", "nearest-neighbour"];
+/** Largest M-PSK order whose exact Gray BER is served: it costs M/2 Craig-type integrals per point. */
+export const MAX_EXACT_PSK_ORDER = 16;
 
-export type BerOptions = { qamBerFormula?: QamBerFormula };
+/**
+ * P(received phase in (ψ, π)) for phase 0 sent at Es/N0 on AWGN, ψ in (0, π): (1/2π)∫₀^{π−ψ} exp(−Es/N0·sin²ψ/sin²θ) dθ
+ * (Pawula, Rice & Roberts, IEEE Trans. Commun. 30(8), 1982; Craig 1991), adaptive Gauss–Legendre to relative 1e-13
+ * or the absolute error absTol, whichever is larger.
+ */
+function phaseTail(esN0: number, psi: number, absTol: number): number {
+  const c = esN0 * Math.sin(psi) ** 2;
+  if (c <= 1) {
+    const opts = { relTol: 1e-13, absTol: 2 * Math.PI * absTol };
+    return integrate((theta) => Math.exp(-c / Math.sin(theta) ** 2), 0, Math.PI - psi, opts).value / (2 * Math.PI);
+  }
+  // v = √c·cot θ as in pskSymbolErrorRate: e^{−c}/(2π√c)·∫_{−√c·cot ψ}^∞ e^{−v²}/(1 + v²/c) dv, integrated from its
+  // lower end directly so that beyond ψ = π/2 no difference of two near-equal integrals is taken.
+  const g = (v: number) => Math.exp(-v * v) / (1 + (v * v) / c);
+  const lower = Math.max(-V_MAX, -Math.sqrt(c) / Math.tan(psi));
+  if (lower >= V_MAX) return 0;
+  const scale = Math.exp(-c) / (2 * Math.PI * Math.sqrt(c));
+  if (scale === 0) return 0;
+  const opts = { relTol: 1e-13, absTol: absTol / scale };
+  const sum = lower < 0 ? integrate(g, lower, 0, opts).value + integrate(g, 0, V_MAX, opts).value : integrate(g, lower, V_MAX, opts).value;
+  return scale * sum;
+}
+
+/**
+ * Exact BER of M-PSK with the binary reflected Gray labelling on AWGN at linear Eb/N0 (Lee, "Computation of the bit
+ * error rate of coherent M-ary PSK with Gray code bit mapping", IEEE Trans. Commun. 34(5), 1986, from memory; the
+ * sector form below is checked against an enumeration over the phase density in the tests):
+ * Pb = (1/k)·Σ_{d=1}^{M−1} w_d·P_d, with w_d the Hamming distance between the labels of points d apart, averaged over
+ * the M points, and P_d the probability of deciding the point d sectors away, P_d = G((2d − 1)π/M) − G((2d + 1)π/M)
+ * for d < M/2 and P_{M/2} = 2·G((M − 1)π/M), G(ψ) = (1/2π)∫₀^{π−ψ} exp(−k·Eb/N0·sin²ψ/sin²θ) dθ (Pawula et al. 1982).
+ */
+export function pskBerExact(order: number, ebN0: number): number {
+  const { M, k } = resolve({ scheme: "psk", order });
+  checkEbN0(ebN0);
+  if (M > MAX_EXACT_PSK_ORDER) throw new InputError(`the exact Gray BER is served for M-PSK up to M = ${MAX_EXACT_PSK_ORDER}; got ${M}`, ["order"]);
+  const gray = (i: number) => i ^ (i >> 1);
+  const weight = (d: number) => {
+    let total = 0;
+    for (let i = 0; i < M; i++) for (let x = gray(i) ^ gray((i + d) % M); x; x &= x - 1) total++;
+    return total / M;
+  };
+  const half = M / 2;
+  // Every P_d is a share of the symbol error 2·G(π/M), so the other tails need only an absolute error below 1e-14 of it.
+  const first = phaseTail(k * ebN0, Math.PI / M, 0);
+  const tails = Array.from({ length: half }, (_, j) => (j === 0 ? first : phaseTail(k * ebN0, ((2 * j + 1) * Math.PI) / M, 1e-14 * first)));
+  // The far sectors are the smallest terms: add them first.
+  let sum = weight(half) * 2 * tails[half - 1]!;
+  for (let d = half - 1; d >= 1; d--) sum += (weight(d) + weight(M - d)) * (tails[d - 1]! - tails[d]!);
+  return sum / k;
+}
+
+/**
+ * Which BER formula serves M-QAM and M-PSK: the exact one (Cho & Yoon for square M-QAM, the sector sum for Gray M-PSK
+ * up to MAX_EXACT_PSK_ORDER), or the nearest-neighbour approximation (symbol errors to adjacent points only, one
+ * wrong bit each). Left out: exact where it is served, else nearest-neighbour.
+ */
+export type BerFormula = "exact" | "nearest-neighbour";
+/** The BER formulas by name. */
+export const BER_FORMULAS: readonly BerFormula[] = ["exact", "nearest-neighbour"];
+
+export type BerOptions = { berFormula?: BerFormula };
+
+// Whether the exact BER formula applies: asked for, or left out where one is served.
+function exactApplies({ kind, M }: Scheme, opts: BerOptions): boolean {
+  const served = kind !== "psk" || M <= MAX_EXACT_PSK_ORDER;
+  if (opts.berFormula === "exact" && !served) {
+    throw new InputError(`the exact Gray BER is served for M-PSK up to M = ${MAX_EXACT_PSK_ORDER}; use berFormula "nearest-neighbour" for M = ${M}`, ["berFormula"]);
+  }
+  return opts.berFormula === undefined ? served : opts.berFormula === "exact";
+}
 
 // Cho & Yoon's coefficients summed over the bit positions k, by i: the terms with the same erfc argument.
 const choYoonCache = new Map<number, Float64Array>();
@@ -129,15 +196,18 @@ const CHO_YOON = "Cho & Yoon 2002";
 
 /**
  * Uncoded BER and SER on AWGN with Gray mapping at linear Eb/N0, with which formula gave each and whether it is exact
- * (Proakis & Salehi 2008, ch. 4; square M-QAM BER by Cho & Yoon 2002 unless `qamBerFormula` is "nearest-neighbour").
+ * (Proakis & Salehi 2008, ch. 4; square M-QAM BER by Cho & Yoon 2002 and M-PSK BER up to 16-PSK by the sector sum of
+ * pskBerExact unless `berFormula` is "nearest-neighbour").
  */
 export function uncodedErrorRates(
   mod: Modulation,
   ebN0: number,
   opts: BerOptions = {},
 ): { ber: number; ser: number; berExact: boolean; serExact: boolean; berMethod: string; serMethod: string } {
-  const { kind, M, k } = resolve(mod);
+  const scheme = resolve(mod);
+  const { kind, M, k } = scheme;
   checkEbN0(ebN0);
+  const exact = exactApplies(scheme, opts);
   const src = "Proakis & Salehi 2008";
   switch (kind) {
     case "bpsk": {
@@ -158,13 +228,27 @@ export function uncodedErrorRates(
     }
     case "psk": {
       const ser = pskSymbolErrorRate(M, ebN0).value;
+      const serMethod = `exact: Craig's integral (1/π)∫₀^{(M−1)π/M} exp(−k·Eb/N0·sin²(π/M)/sin²θ) dθ, adaptive Gauss–Legendre, relative error < 1e-12 (Craig 1991; ${src})`;
+      if (exact) {
+        return {
+          ber: pskBerExact(M, ebN0),
+          ser,
+          berExact: true,
+          serExact: true,
+          berMethod:
+            "exact: (1/k)·Σ_{d=1}^{M−1} w_d·P_d, Gray mapping: w_d the mean Hamming distance between labels d points apart, " +
+            "P_d = G((2d − 1)π/M) − G((2d + 1)π/M) (P_{M/2} = 2·G((M − 1)π/M)) the probability of the sector d points away, " +
+            "G(ψ) = (1/2π)∫₀^{π−ψ} exp(−k·Eb/N0·sin²ψ/sin²θ) dθ, adaptive Gauss–Legendre (Lee 1986; Pawula, Rice & Roberts 1982)",
+          serMethod,
+        };
+      }
       return {
         ber: ser / k,
         ser,
         berExact: false,
         serExact: true,
         berMethod: `approximation: SER/k, Gray mapping with symbol errors to adjacent points only (${src})`,
-        serMethod: `exact: Craig's integral (1/π)∫₀^{(M−1)π/M} exp(−k·Eb/N0·sin²(π/M)/sin²θ) dθ, adaptive Gauss–Legendre, relative error < 1e-12 (Craig 1991; ${src})`,
+        serMethod,
       };
     }
     case "qam": {
@@ -175,7 +259,7 @@ export function uncodedErrorRates(
       const ser = pRail * (2 - pRail);
       // 4-QAM is QPSK: both formulas reduce to Q(√(2·Eb/N0)).
       if (M === 4) return { ber: q, ser, berExact: true, serExact: true, berMethod: `exact: Q(√(2·Eb/N0)), Gray mapping (${src})`, serMethod };
-      if ((opts.qamBerFormula ?? "exact") === "exact") {
+      if (exact) {
         return {
           ber: qamBerExact(M, ebN0),
           ser,
@@ -200,18 +284,20 @@ export function uncodedErrorRates(
 }
 
 /**
- * The uncoded BER at Eb/N0 = 0, the supremum of the BER curve: ½; (M − 1)/(M·log2 M) for M-PSK (SER/k);
- * ½ for exact M-QAM (the decision is then one of the two outermost levels of each rail) and (2/log2 M)(1 − 1/√M)
- * for its nearest-neighbour approximation (the formulas of uncodedErrorRates at 0).
+ * The uncoded BER at Eb/N0 = 0, the supremum of the BER curve: ½ for BPSK, QPSK and the exact formulas (exact M-PSK
+ * then decides a uniformly random label; exact M-QAM one of the two outermost levels of each rail); for the
+ * nearest-neighbour approximations (M − 1)/(M·log2 M) for M-PSK (SER/k) and (2/log2 M)(1 − 1/√M) for M-QAM
+ * (the formulas of uncodedErrorRates at 0).
  */
 export function maximumUncodedBer(mod: Modulation, opts: BerOptions = {}): number {
   return maximumBer(resolve(mod), opts);
 }
 
 // BER at Eb/N0 = 0, the supremum of the BER curve, from the same formulas.
-function maximumBer({ kind, M, k }: Scheme, opts: BerOptions): number {
-  if (kind === "psk") return (M - 1) / M / k;
-  if (kind === "qam" && M > 4 && opts.qamBerFormula === "nearest-neighbour") return (2 / k) * (1 - 1 / Math.sqrt(M));
+function maximumBer(scheme: Scheme, opts: BerOptions): number {
+  const { kind, M, k } = scheme;
+  if (kind === "psk" && !exactApplies(scheme, opts)) return (M - 1) / M / k;
+  if (kind === "qam" && M > 4 && !exactApplies(scheme, opts)) return (2 / k) * (1 - 1 / Math.sqrt(M));
   return 0.5;
 }
 

@@ -51,6 +51,29 @@ function qamBerChoYoon(M: number, ebN0Db: number): number {
   return total / bits;
 }
 
+/**
+ * Exact Gray BER of M-PSK by enumeration: labels i ^ (i >> 1) at phases 2πi/M; each sector's probability is the phase
+ * density (1/2π)·[e^{−γ} + √(4πγ)·cos φ·e^{−γ·sin²φ}·Φ(√(2γ)·cos φ)] (Proakis & Salehi, ch. 4; Φ by @stdlib erfc)
+ * integrated by Simpson's rule with 20,000 panels, times the Hamming distance of the labels, over M points and log2 M bits.
+ */
+function pskBerByEnumeration(M: number, ebN0Db: number): number {
+  const k = Math.log2(M);
+  const g = k * lin(ebN0Db);
+  const density = (f: number) => (Math.exp(-g) + Math.sqrt(4 * Math.PI * g) * Math.cos(f) * Math.exp(-g * Math.sin(f) ** 2) * 0.5 * erfc(-Math.sqrt(g) * Math.cos(f))) / (2 * Math.PI);
+  const simpson = (a: number, b: number) => {
+    const n = 20_000;
+    const h = (b - a) / n;
+    let s = density(a) + density(b);
+    for (let i = 1; i < n; i++) s += (i % 2 ? 4 : 2) * density(a + i * h);
+    return (s * h) / 3;
+  };
+  const sector = Array.from({ length: M }, (_, d) => simpson(((2 * d - 1) * Math.PI) / M, ((2 * d + 1) * Math.PI) / M));
+  const gray = (i: number) => i ^ (i >> 1);
+  let sum = 0;
+  for (let i = 0; i < M; i++) for (let d = 1; d < M; d++) for (let x = gray(i) ^ gray((i + d) % M); x; x &= x - 1) sum += sector[d]!;
+  return sum / (M * k);
+}
+
 /** M-PSK symbol error by Craig's integral (1/π)∫₀^{(M−1)π/M} exp(−Es/N0·sin²(π/M)/sin²θ) dθ, Simpson's rule with 20,000 panels, computed here. */
 function pskSer(M: number, ebN0Db: number): number {
   const es = Math.log2(M) * lin(ebN0Db);
@@ -173,10 +196,30 @@ describe("POST /links/ber: M-QAM and M-PSK", () => {
     }
   });
 
-  it("8-PSK and 16-PSK SER match Craig's integral computed here (Craig 1991; relative 1e-8); BER = SER/log2 M", async () => {
+  it("8-PSK and 16-PSK by default: the exact Gray BER equals an enumeration over labels and sectors of the phase density (Proakis & Salehi; relative 1e-9)", async () => {
     for (const M of [8, 16]) {
       const dbs = [0, 6, 12];
       const res = await call({ modulation: "psk", order: M, ebN0Db: dbs });
+      expect(res.body.berExact).toBe(true);
+      expect(res.body.berMethod).toMatch(/^exact: .*Lee 1986/);
+      dbs.forEach((d, i) => {
+        expect(relErr(res.body.points[i].ber, pskBerByEnumeration(M, d))).toBeLessThan(1e-9);
+        expect(relErr(res.body.points[i].ser, pskSer(M, d))).toBeLessThan(1e-8);
+      });
+    }
+  });
+
+  it("32-PSK: no exact BER is served; left out, berFormula is nearest-neighbour (BER = SER/5); asked for, exact is refused at /berFormula", async () => {
+    const res = await call({ modulation: "psk", order: 32, ebN0Db: 10 });
+    expect(res.body.berExact).toBe(false);
+    expect(relErr(res.body.points[0].ber, pskSer(32, 10) / 5)).toBeLessThan(1e-8);
+    expectFieldError(await postJson("/api/v1/links/ber", { modulation: "psk", order: 32, berFormula: "exact", ebN0Db: 10 }, auth), "/berFormula", /up to M = 16/);
+  });
+
+  it("8-PSK and 16-PSK SER match Craig's integral computed here (Craig 1991; relative 1e-8); with berFormula nearest-neighbour, BER = SER/log2 M", async () => {
+    for (const M of [8, 16]) {
+      const dbs = [0, 6, 12];
+      const res = await call({ modulation: "psk", order: M, berFormula: "nearest-neighbour", ebN0Db: dbs });
       expect(res.body.bitsPerSymbol).toBe(Math.log2(M));
       expect(res.body.serExact).toBe(true);
       dbs.forEach((d, i) => {
@@ -194,7 +237,7 @@ describe("POST /links/ber: M-QAM and M-PSK", () => {
   });
 
   it("8-PSK Eb/N0 for BER 1e-6: there Craig's SER / 3 is 1e-6, and the high-SNR approximation 2Q(√(2Es/N0)·sin(π/8)) agrees within 5 % (Proakis & Salehi)", async () => {
-    const res = await call({ modulation: "psk", order: 8, targetBer: 1e-6 });
+    const res = await call({ modulation: "psk", order: 8, berFormula: "nearest-neighbour", targetBer: 1e-6 });
     const d = res.body.required.ebN0Db;
     expect(relErr(pskSer(8, d) / 3, 1e-6)).toBeLessThan(1e-6);
     const approx = (2 * Q(Math.sqrt(2 * 3 * lin(d)) * Math.sin(Math.PI / 8))) / 3;
@@ -257,7 +300,7 @@ describe("POST /links/ber: coding gain and cost", () => {
   });
 
   // The documented rule: 256 + points × 2^12 work (2^16 per point for M-PSK, whose symbol error is an integral at each point;
-  // 2^12 + 2^6·√M for M-QAM's exact BER); a targetBer adds 64 × the per-point figure;
+  // 2^16·max(1, M/4) for its exact BER; 2^12 + 2^6·√M for M-QAM's exact BER); a targetBer adds 64 × the per-point figure;
   // 1 compute unit per started 2^22 work units, at least 1.
   const units = (work: number) => String(Math.max(1, Math.ceil(work / 2 ** 22)));
   const sweepOf = (count: number) => Array.from({ length: count }, (_, i) => -10 + (20 * i) / count);
@@ -275,8 +318,8 @@ describe("POST /links/ber: coding gain and cost", () => {
     [64, "2"],
     [250, "4"],
     [1000, "16"],
-  ])("an 8-PSK sweep of %d points costs %s units (256 + points × 2^16)", async (count, expected) => {
-    const res = await call({ modulation: "psk", order: 8, ebN0Db: sweepOf(count) });
+  ])("an 8-PSK sweep of %d points with the nearest-neighbour BER costs %s units (256 + points × 2^16)", async (count, expected) => {
+    const res = await call({ modulation: "psk", order: 8, berFormula: "nearest-neighbour", ebN0Db: sweepOf(count) });
     expect(res.body.points).toHaveLength(count);
     expect(res.headers["x-compute-units"]).toBe(units(256 + count * 2 ** 16));
     expect(res.headers["x-compute-units"]).toBe(expected);
@@ -294,10 +337,20 @@ describe("POST /links/ber: coding gain and cost", () => {
     expect(res.headers["x-compute-units"]).toBe(expected);
   });
 
+  it.each([
+    [8, 100, 2 ** 17, "4"],
+    [16, 100, 2 ** 18, "7"],
+    [32, 100, 2 ** 16, "2"],
+  ])("a %d-PSK sweep of %d points by default costs 256 + points × %d (exact BER up to 16-PSK): %s units", async (M, count, perPoint, expected) => {
+    const res = await call({ modulation: "psk", order: M, ebN0Db: sweepOf(count) });
+    expect(res.headers["x-compute-units"]).toBe(units(256 + count * perPoint));
+    expect(res.headers["x-compute-units"]).toBe(expected);
+  });
+
   it("a targetBer adds 64 × the per-point figure: BPSK 256 + 64·2^12 → 1 unit, 8-PSK 256 + 64·2^16 → 2 units", async () => {
     const bpsk = await call({ modulation: "bpsk", targetBer: 1e-5 });
     expect(bpsk.headers["x-compute-units"]).toBe(units(256 + 64 * 2 ** 12));
-    const psk = await call({ modulation: "psk", order: 8, targetBer: 1e-5 });
+    const psk = await call({ modulation: "psk", order: 8, berFormula: "nearest-neighbour", targetBer: 1e-5 });
     expect(psk.headers["x-compute-units"]).toBe(units(256 + 64 * 2 ** 16));
     expect([bpsk.headers["x-compute-units"], psk.headers["x-compute-units"]]).toEqual(["1", "2"]);
   });

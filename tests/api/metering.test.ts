@@ -35,8 +35,8 @@ describe("metering: one usage row per authenticated call", () => {
       { e: distance as unknown as Endpoint, input: { a: "0".repeat(600_000), b: "1".repeat(600_000) } },
       { e: bsc as unknown as Endpoint, input: { n: 7, p: 0.001, t: 1 } },
       { e: capacity as unknown as Endpoint, input: { channel: "bsc", p: 0.11 } },
-      // 64 8-PSK points: 256 + 64·2^16 = 4,194,560 work → 2 units.
-      { e: linkBer as unknown as Endpoint, input: { modulation: "psk", order: 8, ebN0Db: Array.from({ length: 64 }, (_, i) => i / 10) } },
+      // 64 8-PSK points with the nearest-neighbour BER: 256 + 64·2^16 = 4,194,560 work → 2 units.
+      { e: linkBer as unknown as Endpoint, input: { modulation: "psk", order: 8, berFormula: "nearest-neighbour", ebN0Db: Array.from({ length: 64 }, (_, i) => i / 10) } },
       { e: usage as unknown as Endpoint, input: {} },
     ];
     const seen: { id: string; units: number; endpoint: string; method: string }[] = [];

@@ -2,7 +2,7 @@ import erfc from "@stdlib/math-base-special-erfc";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { InputError } from "@/lib/core/errors";
-import { maximumUncodedBer, type Modulation, pskSymbolErrorRate, qamBerExact, qfunc, qinv, requiredEbN0, uncodedErrorRates } from "@/lib/core/modulation";
+import { maximumUncodedBer, type Modulation, pskBerExact, pskSymbolErrorRate, qamBerExact, qfunc, qinv, requiredEbN0, uncodedErrorRates } from "@/lib/core/modulation";
 import { bisect } from "@/lib/core/numeric";
 import ref from "../fixtures/scipy-reference.json";
 
@@ -10,6 +10,7 @@ const SCIPY = `scipy ${ref.versions.scipy} fixture`;
 const db = (x: number) => 10 * Math.log10(x);
 const lin = (d: number) => Math.pow(10, d / 10);
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+const NN = { berFormula: "nearest-neighbour" } as const;
 
 function modOf(scheme: string, order?: number): Modulation {
   if (scheme === "bpsk" || scheme === "qpsk") return { scheme };
@@ -74,6 +75,38 @@ describe("BPSK / QPSK", () => {
   });
 });
 
+/** Simpson's rule with 20,000 panels. */
+function simpson(f: (x: number) => number, a: number, b: number): number {
+  const n = 20_000;
+  const h = (b - a) / n;
+  let s = f(a) + f(b);
+  for (let i = 1; i < n; i++) s += (i % 2 ? 4 : 2) * f(a + i * h);
+  return (s * h) / 3;
+}
+
+/**
+ * Density of the received phase φ of a PSK symbol sent at phase 0 on AWGN at Es/N0 = γ, from the 2-D Gaussian in polar
+ * coordinates integrated over the radius (Proakis & Salehi 2008, ch. 4):
+ * (1/2π)·[e^{−γ} + √(4πγ)·cos φ·e^{−γ·sin²φ}·Φ(√(2γ)·cos φ)], Φ(x) = ½·erfc(−x/√2) with @stdlib erfc.
+ */
+const phaseDensity = (g: number, f: number) =>
+  (Math.exp(-g) + Math.sqrt(4 * Math.PI * g) * Math.cos(f) * Math.exp(-g * Math.sin(f) ** 2) * 0.5 * erfc(-Math.sqrt(g) * Math.cos(f))) / (2 * Math.PI);
+
+/**
+ * Exact Gray BER of M-PSK by enumeration, independent of the sector-sum code: point i at phase 2πi/M carries the
+ * binary reflected Gray label i ^ (i >> 1); each sector's probability is the phase density integrated over it
+ * (Simpson), times the Hamming distance of the labels, averaged over the M points and divided by log2 M.
+ */
+function pskBerByEnumeration(M: number, ebN0: number): number {
+  const k = Math.log2(M);
+  const sector = Array.from({ length: M }, (_, d) => simpson((f) => phaseDensity(k * ebN0, f), ((2 * d - 1) * Math.PI) / M, ((2 * d + 1) * Math.PI) / M));
+  const gray = (i: number) => i ^ (i >> 1);
+  let sum = 0;
+  for (let i = 0; i < M; i++)
+    for (let d = 1; d < M; d++) for (let x = gray(i) ^ gray((i + d) % M); x; x &= x - 1) sum += sector[d]!;
+  return sum / (M * k);
+}
+
 describe("M-PSK", () => {
   it(`SER by Craig's integral matches scipy.integrate.quad (${SCIPY}) within relative 1e-12`, () => {
     // Measured max 2.6e-14.
@@ -99,8 +132,8 @@ describe("M-PSK", () => {
     for (const M of [8, 16, 1024]) expect(rel(pskSymbolErrorRate(M, 0).value, (M - 1) / M)).toBeLessThan(1e-14);
   });
 
-  it("BER is marked as the SER/k Gray approximation; orders 2 and 4 route to the exact forms", () => {
-    const r = uncodedErrorRates({ scheme: "psk", order: 8 }, 10);
+  it("BER by name nearest-neighbour is marked as the SER/k Gray approximation; orders 2 and 4 route to the exact forms", () => {
+    const r = uncodedErrorRates({ scheme: "psk", order: 8 }, 10, NN);
     expect(r.berExact).toBe(false);
     expect(r.serExact).toBe(true);
     expect(r.berMethod).toMatch(/^approximation/);
@@ -108,9 +141,58 @@ describe("M-PSK", () => {
     expect(uncodedErrorRates({ scheme: "psk", order: 2 }, 3)).toEqual(uncodedErrorRates({ scheme: "bpsk" }, 3));
     expect(uncodedErrorRates({ scheme: "psk", order: 4 }, 3)).toEqual(uncodedErrorRates({ scheme: "qpsk" }, 3));
   });
-});
 
-const NN = { qamBerFormula: "nearest-neighbour" } as const;
+  it("exact Gray BER (sector sum) equals an enumeration over labels and sectors of the phase density, 8- and 16-PSK, −10 to 20 dB", () => {
+    // Measured max 2.6e-11 (8-PSK at 20 dB, where Simpson's rule meets the narrow density).
+    for (const M of [8, 16])
+      for (const d of [-10, 0, 5, 10, 15, 20]) {
+        expect(rel(pskBerExact(M, lin(d)), pskBerByEnumeration(M, lin(d)))).toBeLessThan(1e-9);
+        const r = uncodedErrorRates({ scheme: "psk", order: M }, lin(d));
+        expect(r.ber).toBe(pskBerExact(M, lin(d)));
+        expect(r.berExact).toBe(true);
+        expect(r.berMethod).toMatch(/^exact: .*Lee 1986/);
+      }
+  });
+
+  it("the phase density used by the enumeration integrates to 1 (a check of the reference itself)", () => {
+    for (const g of [0.1, 1, 10, 100]) expect(Math.abs(simpson((f) => phaseDensity(g, f), -Math.PI, Math.PI) - 1)).toBeLessThan(1e-12);
+  });
+
+  it("the sector sum for 2- and 4-PSK is BPSK's ½·erfc(√(Eb/N0)) (Proakis & Salehi; @stdlib erfc)", () => {
+    for (const g of [0.01, 1, 10, 100]) {
+      expect(rel(pskBerExact(2, g), 0.5 * erfc(Math.sqrt(g)))).toBeLessThan(1e-12);
+      expect(rel(pskBerExact(4, g), 0.5 * erfc(Math.sqrt(g)))).toBeLessThan(1e-12);
+    }
+  });
+
+  it("exact BER is ½ at Eb/N0 = 0 (a uniformly random label); SER/k is below it at low SNR and meets it at high SNR", () => {
+    for (const M of [8, 16]) {
+      expect(rel(pskBerExact(M, 0), 0.5)).toBeLessThan(1e-13);
+      expect(maximumUncodedBer({ scheme: "psk", order: M })).toBe(0.5);
+      // 8-PSK at 0 dB: the sectors two and more away carry 6 % of the bit errors.
+      expect(uncodedErrorRates({ scheme: "psk", order: M }, 1, NN).ber).toBeLessThan(0.95 * pskBerExact(M, 1));
+      expect(rel(uncodedErrorRates({ scheme: "psk", order: M }, lin(18), NN).ber, pskBerExact(M, lin(18)))).toBeLessThan(1e-6);
+    }
+  });
+
+  it("the inverse round-trips on the exact formula (relative 1e-8); above 16-PSK the approximation is served and exact is refused at berFormula", () => {
+    for (const M of [8, 16])
+      for (const target of [0.4, 1e-3, 1e-9]) expect(rel(pskBerExact(M, requiredEbN0({ scheme: "psk", order: M }, target)), target)).toBeLessThan(1e-8);
+    const r = uncodedErrorRates({ scheme: "psk", order: 32 }, 10);
+    expect(r.berExact).toBe(false);
+    expect(r.ber).toBe(r.ser / 5);
+    const thrown = (f: () => unknown) => {
+      try {
+        f();
+      } catch (e) {
+        return e as InputError;
+      }
+      throw new Error("no error thrown");
+    };
+    expect(thrown(() => uncodedErrorRates({ scheme: "psk", order: 32 }, 10, { berFormula: "exact" })).path).toEqual(["berFormula"]);
+    expect(thrown(() => pskBerExact(32, 10)).path).toEqual(["order"]);
+  });
+});
 
 /**
  * Exact BER of Gray-labelled square M-QAM by enumeration, independent of Cho & Yoon's closed form: for every sent
@@ -234,10 +316,10 @@ describe("required Eb/N0 by bisection", () => {
 
   it("targets just below the maximum BER need Eb/N0 below −20 dB and are still found", () => {
     const mod: Modulation = { scheme: "psk", order: 8 };
-    const target = 0.29; // maximum is 7/24 ≈ 0.2917
-    const g = requiredEbN0(mod, target);
+    const target = 0.29; // maximum of SER/k is 7/24 ≈ 0.2917
+    const g = requiredEbN0(mod, target, NN);
     expect(db(g)).toBeLessThan(-20);
-    expect(rel(uncodedErrorRates(mod, g).ber, target)).toBeLessThan(1e-9);
+    expect(rel(uncodedErrorRates(mod, g, NN).ber, target)).toBeLessThan(1e-9);
   });
 
   it("BER falls as Eb/N0 rises for every scheme (property)", () => {
@@ -255,7 +337,8 @@ describe("required Eb/N0 by bisection", () => {
     expect(() => requiredEbN0({ scheme: "bpsk" }, 0)).toThrow(InputError);
     expect(() => requiredEbN0({ scheme: "bpsk" }, Number.NaN)).toThrow(InputError);
     // 8-PSK: (M − 1)/(M·k) = 7/24; 16-QAM: (2/k)(1 − 1/√M) = 3/8.
-    expect(() => requiredEbN0({ scheme: "psk", order: 8 }, 0.3)).toThrow(/never exceeds 0.29166/);
+    expect(() => requiredEbN0({ scheme: "psk", order: 8 }, 0.3, NN)).toThrow(/never exceeds 0.29166/);
+    expect(() => requiredEbN0({ scheme: "psk", order: 32 }, 0.3)).toThrow(/never exceeds 0.19375/);
     expect(() => requiredEbN0({ scheme: "qam", order: 16 }, 0.375, NN)).toThrow(/never exceeds 0.375/);
     expect(() => requiredEbN0({ scheme: "qam", order: 16 }, 0.5)).toThrow(/never exceeds 0.5/);
   });

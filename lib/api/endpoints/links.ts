@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { dbToLinear, linearToDb } from "@/lib/core/capacity";
-import { MAX_PSK_ORDER, maximumUncodedBer, QAM_BER_FORMULAS, QAM_ORDERS, requiredEbN0, uncodedErrorRates, type BerOptions, type Modulation } from "@/lib/core/modulation";
+import { MAX_EXACT_PSK_ORDER, MAX_PSK_ORDER, maximumUncodedBer, BER_FORMULAS, QAM_ORDERS, requiredEbN0, uncodedErrorRates, type BerOptions, type Modulation } from "@/lib/core/modulation";
 import { at, defineEndpoint } from "../endpoint";
 import { atLeastOneOf, caution, documentRules } from "../schemas";
 
@@ -43,34 +43,38 @@ const orderOf = (scheme: "psk" | "qam", values: readonly number[], rule: string)
     // zod-to-openapi 9 writes only the first value of a literal with several.
     .meta({ description: `M: ${rule}.`, enum: [...values] });
 
-const NEAREST: BerOptions = { qamBerFormula: "nearest-neighbour" };
+const NEAREST: BerOptions = { berFormula: "nearest-neighbour" };
 
-/** JSON Schema: targetBer below the modulation's BER at Eb/N0 = 0, per order (for QAM, per order with the nearest-neighbour formula; the exact one reaches ½). */
-const targetBerRules = (scheme: "psk" | "qam", orders: readonly number[]) => ({
-  allOf: orders
-    .filter((order) => maximumUncodedBer({ scheme, order }, NEAREST) < 0.5)
-    .map((order) =>
-      scheme === "psk"
-        ? {
-            if: { properties: { order: { const: order } }, required: ["order"] },
-            then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }) } } },
-          }
-        : {
-            if: { properties: { order: { const: order }, berFormula: { const: "nearest-neighbour" } }, required: ["order", "berFormula"] },
-            then: { properties: { targetBer: { exclusiveMaximum: maximumUncodedBer({ scheme, order }, NEAREST) } } },
-          },
-    ),
+/**
+ * JSON Schema, per order: targetBer below the BER at Eb/N0 = 0 of the formula in use (½ for the exact ones, so only
+ * the nearest-neighbour formulas need a rule), and no exact formula for M-PSK above MAX_EXACT_PSK_ORDER.
+ */
+const formulaRules = (scheme: "psk" | "qam", orders: readonly number[]) => ({
+  allOf: orders.flatMap((order) => {
+    const ifOrder = (extra: object = {}) => ({ properties: { order: { const: order }, ...extra }, required: ["order", ...Object.keys(extra)] });
+    const below = (max: number) => ({ properties: { targetBer: { exclusiveMaximum: max } } });
+    const nearestMax = maximumUncodedBer({ scheme, order }, NEAREST);
+    if (scheme === "psk" && order > MAX_EXACT_PSK_ORDER) {
+      return [{ if: ifOrder(), then: { properties: { berFormula: { const: "nearest-neighbour" }, ...below(nearestMax).properties } } }];
+    }
+    return nearestMax < 0.5 ? [{ if: ifOrder({ berFormula: { const: "nearest-neighbour" } }), then: below(nearestMax) }] : [];
+  }),
 });
 
-const berFormula = z
-  .enum(QAM_BER_FORMULAS)
-  .default("exact")
-  .meta({
-    description:
-      "The BER formula, for the points and for `targetBer`: `exact` (default), Cho & Yoon's closed form for Gray-labelled square M-QAM " +
-      "(IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) " +
-      "that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB).",
-  });
+const berFormula = (scheme: "psk" | "qam") =>
+  z
+    .enum(BER_FORMULAS)
+    .optional()
+    .meta({
+      description:
+        scheme === "qam"
+          ? "The BER formula, for the points and for `targetBer`: `exact` (when left out), Cho & Yoon's closed form for Gray-labelled square M-QAM " +
+            "(IEEE Trans. Commun. 50(7), 2002); `nearest-neighbour`, the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))) " +
+            "that counts symbol errors to adjacent points only, one wrong bit each (about 0.4 % below the exact value for 64-QAM at 6 dB)."
+          : `The BER formula, for the points and for \`targetBer\`: \`exact\` (when left out, up to ${MAX_EXACT_PSK_ORDER}-PSK), the Gray BER as a sum over the ` +
+            "decision sectors of the probability of each times the mean Hamming distance of labels that far apart (Lee, IEEE Trans. Commun. 34(5), 1986); " +
+            `\`nearest-neighbour\` (when left out above ${MAX_EXACT_PSK_ORDER}-PSK, the only formula there), SER/log2 M: symbol errors to adjacent points only, one wrong bit each.`,
+    });
 
 const fixedOrder = (scheme: "bpsk" | "qpsk", order: number) =>
   z
@@ -85,15 +89,15 @@ const input = documentRules(
       z.strictObject({ modulation: z.literal("qpsk"), order: fixedOrder("qpsk", 4), ...shared }).meta({ description: "QPSK, Gray-mapped." }),
       documentRules(
         z
-          .strictObject({ modulation: z.literal("psk"), order: orderOf("psk", PSK_ORDERS, `a power of 2 from 2 to ${MAX_PSK_ORDER}`), ...shared })
+          .strictObject({ modulation: z.literal("psk"), order: orderOf("psk", PSK_ORDERS, `a power of 2 from 2 to ${MAX_PSK_ORDER}`), berFormula: berFormula("psk"), ...shared })
           .meta({ description: "M-PSK, Gray-mapped." }),
-        targetBerRules("psk", PSK_ORDERS),
+        formulaRules("psk", PSK_ORDERS),
       ),
       documentRules(
         z
-          .strictObject({ modulation: z.literal("qam"), order: orderOf("qam", QAM_ORDERS, `a square constellation size, one of ${QAM_ORDERS.join(", ")}`), berFormula, ...shared })
+          .strictObject({ modulation: z.literal("qam"), order: orderOf("qam", QAM_ORDERS, `a square constellation size, one of ${QAM_ORDERS.join(", ")}`), berFormula: berFormula("qam"), ...shared })
           .meta({ description: "Square M-QAM, Gray-mapped." }),
-        targetBerRules("qam", QAM_ORDERS),
+        formulaRules("qam", QAM_ORDERS),
       ),
     ])
     .superRefine((v, ctx) => {
@@ -132,7 +136,15 @@ const output = z
   })
   .meta({ id: "LinkBerResult" });
 
-const berOptionsOf = (v: z.output<typeof input>): BerOptions => (v.modulation === "qam" ? { qamBerFormula: v.berFormula } : {});
+const berOptionsOf = (v: z.output<typeof input>): BerOptions =>
+  (v.modulation === "qam" || v.modulation === "psk") && v.berFormula !== undefined ? { berFormula: v.berFormula } : {};
+
+/** Whether the request gets an exact M-PSK or M-QAM BER: asked for, or left out where one is served. */
+const exactBer = (v: z.output<typeof input>): boolean => {
+  if (v.modulation === "qam") return v.berFormula !== "nearest-neighbour";
+  if (v.modulation === "psk") return v.berFormula === "exact" || (v.berFormula === undefined && v.order <= MAX_EXACT_PSK_ORDER);
+  return false;
+};
 
 const modulationOf = (v: z.output<typeof input>): Modulation =>
   v.modulation === "bpsk" || v.modulation === "qpsk" ? { scheme: v.modulation } : { scheme: v.modulation, order: v.order! };
@@ -145,7 +157,8 @@ export const linkBer = defineEndpoint({
   tag: "Links",
   summary: "Uncoded BER on AWGN at an Eb/N0, the Eb/N0 for a target BER, and a code's coding gain",
   description:
-    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral, BER ≈ SER/log2 M (Gray). " +
+    "BPSK and QPSK: Pb = Q(√(2Eb/N0)), exact. M-PSK: exact symbol error by Craig's integral; exact Gray BER up to 16-PSK as a sum over decision sectors " +
+    "of Craig-type integrals (Lee 1986), else (or with `berFormula: \"nearest-neighbour\"`) BER ≈ SER/log2 M. " +
     "Square M-QAM: exact symbol error; exact Gray BER by Cho & Yoon (IEEE Trans. Commun. 50(7), 2002), or with `berFormula: \"nearest-neighbour\"` " +
     "the approximation (4/log2 M)(1 − 1/√M)·Q(√(3·log2 M·Eb/N0/(M − 1))). " +
     "The inverse is solved on the same formula: closed form for BPSK, QPSK and 4-QAM, else bisection on Eb/N0 in dB to 1e-10 dB.",
@@ -159,13 +172,16 @@ export const linkBer = defineEndpoint({
     gain: { summary: "Coding gain of a (23,12) code with dmin 7 and BPSK at BER 1e-5", value: { modulation: "bpsk", targetBer: 1e-5, code: { n: 23, k: 12, dmin: 7 } } },
   },
   work: (req) => {
-    // M-PSK's symbol error is Craig's integral at each point; exact M-QAM sums √M − 1 erfc terms; the rest are closed forms.
-    const perPoint = req.modulation === "psk" ? 2 ** 16 : req.modulation === "qam" && req.berFormula === "exact" ? 2 ** 12 + 2 ** 6 * Math.sqrt(req.order) : 2 ** 12;
+    // M-PSK's symbol error is Craig's integral at each point and its exact BER M/2 of them; exact M-QAM sums √M − 1 erfc terms; the rest are closed forms.
+    const exact = exactBer(req);
+    const perPoint =
+      req.modulation === "psk" ? 2 ** 16 * (exact ? Math.max(1, req.order / 4) : 1) : req.modulation === "qam" && exact ? 2 ** 12 + 2 ** 6 * Math.sqrt(req.order) : 2 ** 12;
     const points = req.ebN0Db === undefined ? 0 : Array.isArray(req.ebN0Db) ? req.ebN0Db.length : 1;
     return 256 + points * perPoint + (req.targetBer !== undefined ? 64 * perPoint : 0);
   },
   workRule:
-    "256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point; 2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding).",
+    "256 + points × 2^12 (2^16 for M-PSK, whose symbol error is an integral at each point, and 2^16·max(1, M/4) for its exact BER, M/2 integrals; " +
+    "2^12 + 2^6·√M for M-QAM's exact BER, a sum of √M − 1 erfc terms) + 64 × that per-point figure for a `targetBer` (root finding).",
   handler: (req) => {
     const mod = modulationOf(req);
     const opts = berOptionsOf(req);
