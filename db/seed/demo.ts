@@ -40,22 +40,22 @@ function rng(seed: number) {
   };
 }
 
-/** The demo's history, in days before the seed runs; every row and ledger entry below takes its time from here. */
+/** The demo's history, in days before the seed runs (fractions spread the changes over the working day); every row and ledger entry below takes its time from here. */
 const HISTORY = {
-  orgCreated: 120,
-  teoInvited: 119,
-  teoJoined: 118.6,
-  amaraInvited: 111,
-  amaraJoined: 110.8,
-  amaraToBilling: 95,
-  relayCreated: 90,
-  modemCreated: 60.2,
-  internCreated: 60,
-  ciCreated: 45,
-  benchCreated: 32,
-  modemRevoked: 12,
+  orgCreated: 120.3,
+  teoInvited: 119.1,
+  teoJoined: 118.85,
+  amaraInvited: 111.2,
+  amaraJoined: 110.9,
+  amaraToBilling: 95.15,
+  relayCreated: 90.05,
+  modemCreated: 60.25,
+  internCreated: 60.1,
+  ciCreated: 45.2,
+  benchCreated: 32.3,
+  modemRevoked: 12.15,
   internExpired: 5,
-  relayRotated: 2,
+  relayRotated: 2.1,
 } as const;
 /** The shore station's relay overlap: the old key works for a week after the rotation. */
 const RELAY_OVERLAP_HOURS = 7 * 24;
@@ -160,7 +160,7 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
     await tx.updateTable("api_keys").set({ revoked_at: ago(HISTORY.modemRevoked) }).where("id", "=", modem.id).execute();
     await audit(HISTORY.modemRevoked, noor.id, { action: "key.revoked", targetType: "api_key", targetId: modem.id, details: { prefix: modem.prefix } });
     // A live key in a rotation overlap: the shore station's relay key was replaced two days ago and
-    // the old one keeps working for five more days while the station picks up the new one.
+    // the old one keeps working for about five more days while the station picks up the new one.
     const oldEndsAt = new Date(Date.parse(ago(HISTORY.relayRotated)) + RELAY_OVERLAP_HOURS * 3600_000).toISOString();
     await tx.updateTable("api_keys").set({ expires_at: oldEndsAt }).where("id", "=", oldRelay.id).execute();
     const { prefix: newPrefix, hash: newHash } = generateKey("live");
