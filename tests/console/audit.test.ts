@@ -2,7 +2,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { insertAudit } from "@/db/queries/audit";
-import { SENTENCES, type SentencePart } from "@/lib/console/audit";
+import { SENTENCES, listAuditEntries, type SentencePart } from "@/lib/console/audit";
 import { expectFieldError } from "../helpers/api";
 import { consoleCall, inviteLinkTo, makeConsoleOrg, makePerson, type ConsoleFixture, type Person } from "../helpers/console";
 
@@ -215,6 +215,32 @@ describe("each entry as a sentence", () => {
     const ownerKey = `the key “owner key” (${fx.keys.owner.record.prefix}…)`;
     expect(scripted).toEqual([`The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The operator CLI created ${ownerKey}.`]);
     expect(text(one("widget.polished").sentence)).toBe("owner recorded widget.polished on widget part 7.");
+  });
+
+  it("tells an overlap by where it stands: ended at once, running, or over", async () => {
+    const k = fx.otherKey.record;
+    const hour = 3_600_000;
+    const t0 = Date.now() - 10 * hour;
+    const rotation = (at: number, endsAt: number, overlapHours: number) =>
+      insertAudit(fx.db, {
+        orgId: fx.other.id,
+        actor: `user:${fx.otherOwner.id}`,
+        action: "key.rotated",
+        targetType: "api_key",
+        targetId: k.id,
+        details: { prefix: k.prefix, overlapHours, oldKeyEndsAt: new Date(endsAt).toISOString() },
+        at: new Date(at).toISOString(),
+      });
+    await rotation(t0, t0, 0);
+    await rotation(t0, t0 + 2 * hour, 2);
+    await rotation(t0, t0 + 20 * hour, 20);
+    const { entries: rotations } = await listAuditEntries(fx.db, fx.other, { action: "key.rotated", limit: 10 });
+    const head = `other-owner rotated the key “other key” (${k.prefix}…); the old key`;
+    expect(rotations.map((e) => text(e.sentence))).toEqual([
+      `${head} works until [${new Date(t0 + 20 * hour).toISOString()}].`,
+      `${head} worked until [${new Date(t0 + 2 * hour).toISOString()}].`,
+      `${head} stopped at once.`,
+    ]);
   });
 
   it("has a sentence of its own for every action the code writes", () => {
