@@ -374,20 +374,25 @@ export interface components {
              */
             parity: "even" | "odd";
         };
+        /** @description Hamming code by `r`, or by `n` and `k` (which must be a Hamming pair); single-error correcting, the extended code also detects two. */
         HammingCode: {
+            /** @enum {string} */
+            family: "hamming";
+            /** @description Parity bits: n = 2^r − 1, k = n − r. Required unless `n` and `k` are given. */
+            r?: number;
+            /** @description Length, with `k`, instead of `r`: 2^r − 1, or 2^r for the extended code (n = 7, k = 4 is r = 3; n = 8, k = 4 is its extension). */
+            n?: number;
+            /** @description Message bits, with `n`: n − r, or 2^r − r − 1 for the extended code. */
+            k?: number;
+            /** @description Add an overall parity bit: (2^r, 2^r − r − 1), corrects one error and detects two. Default false; with `n` and `k`, n already says it. */
+            extended?: boolean;
+        } & ((unknown | unknown) & {
             /**
              * @description discriminator enum property added by openapi-typescript
              * @enum {string}
              */
             family: "hamming";
-            /** @description Parity bits: n = 2^r − 1, k = n − r. */
-            r: number;
-            /**
-             * @description Add an overall parity bit: (2^r, 2^r − r − 1), corrects one error and detects two.
-             * @default false
-             */
-            extended: boolean;
-        };
+        });
         GolayCode: {
             /**
              * @description discriminator enum property added by openapi-typescript
