@@ -92,6 +92,13 @@ export const encode = defineEndpoint({
   examples: {
     hamming: { summary: "Hamming (7,4), two nibbles", value: { code: { family: "hamming", r: 3 }, messages: ["1011", "0110"] } },
     crc32: { summary: "CRC-32/ISO-HDLC of the text 123456789 (check value 0xcbf43926)", value: { code: { family: "crc", preset: "CRC-32/ISO-HDLC" }, messages: [{ text: "123456789" }] } },
+    crc32Bits: {
+      summary: "CRC-32/ISO-HDLC of the same bytes written as bits, most significant bit first (the same 0xcbf43926)",
+      value: {
+        code: { family: "crc", preset: "CRC-32/ISO-HDLC" },
+        messages: ["00110001 00110010 00110011 00110100 00110101 00110110 00110111 00111000 00111001"],
+      },
+    },
     bch: { summary: "BCH (15,7), t = 2", value: { code: { family: "bch", m: 4, t: 2 }, messages: ["1010011"] } },
     rs: {
       summary: "Reed–Solomon over GF(256) as in the QR-code standard (field 0x11D, roots α^0…α^9), 16 data symbols",
