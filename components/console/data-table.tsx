@@ -31,9 +31,15 @@ export type Column<T extends RowData> = ColumnDef<TableFeats, T>;
 
 const PAGE_SIZES = [10, 25, 50] as const;
 
+/** On a phone: the cell's column name on the left, its value on the right. */
+const cellLabelled =
+  "max-sm:flex max-sm:justify-between max-sm:gap-3 max-sm:before:font-sans max-sm:before:text-xs max-sm:before:text-ink-2 max-sm:before:uppercase max-sm:before:content-[attr(data-label)]";
+
 /**
  * A sortable, paginated table (TanStack Table). Sort by a header's button (aria-sort says the
- * order); page with Previous / Next. `numeric` columns are right-aligned.
+ * order); page with Previous / Next. `numeric` columns are right-aligned. Below the sm
+ * breakpoint each row becomes a card (its first cell on top, then one line per other cell under
+ * its column's name) and the header a row of sort buttons, so nothing scrolls sideways on a phone.
  */
 export function DataTable<T extends RowData>({
   caption,
@@ -75,11 +81,11 @@ export function DataTable<T extends RowData>({
   return (
     <div className={`${panel} overflow-hidden`}>
       <div className="overflow-x-auto">
-        <table className="w-full border-collapse text-sm">
+        <table className="w-full border-collapse text-sm max-sm:block">
           <caption className="sr-only">{caption}, sortable by column</caption>
-          <thead className={tableHead}>
+          <thead className={`${tableHead} max-sm:block`}>
             {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
+              <tr key={group.id} className="max-sm:flex max-sm:flex-wrap max-sm:px-1">
                 {group.headers.map((header) => {
                   const sorted = header.column.getIsSorted();
                   const canSort = header.column.getCanSort();
@@ -88,7 +94,7 @@ export function DataTable<T extends RowData>({
                       key={header.id}
                       scope="col"
                       aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : canSort ? "none" : undefined}
-                      className={`px-3 py-2 font-medium ${isNum(header.column.id) ? "text-right" : ""}`}
+                      className={`px-3 py-2 font-medium max-sm:block max-sm:px-2 ${isNum(header.column.id) ? "text-right" : ""}`}
                     >
                       {header.isPlaceholder ? null : canSort ? (
                         <button
@@ -108,11 +114,15 @@ export function DataTable<T extends RowData>({
               </tr>
             ))}
           </thead>
-          <tbody>
+          <tbody className="max-sm:block">
             {rows.map((row) => (
-              <tr key={row.id} className="border-t border-rule">
-                {row.getAllCells().map((cell) => (
-                  <td key={cell.id} className={`px-3 py-2 align-top ${isNum(cell.column.id) ? "text-right font-mono tabular-nums" : ""}`}>
+              <tr key={row.id} className="border-t border-rule max-sm:block max-sm:py-1.5">
+                {row.getAllCells().map((cell, i) => (
+                  <td
+                    key={cell.id}
+                    data-label={i > 0 && typeof cell.column.columnDef.header === "string" ? cell.column.columnDef.header : undefined}
+                    className={`px-3 py-2 align-top max-sm:py-0.5 ${i > 0 ? cellLabelled : "max-sm:block max-sm:pb-1"} ${isNum(cell.column.id) ? "text-right font-mono tabular-nums" : ""}`}
+                  >
                     <table.FlexRender cell={cell} />
                   </td>
                 ))}

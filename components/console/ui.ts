@@ -23,3 +23,15 @@ export const errorText = `mt-1 text-xs font-medium ${dangerText}`;
 
 export const panel = "rounded-lg border border-rule bg-surface";
 export const tableHead = "bg-sunken text-left text-xs font-medium tracking-wide text-ink-2 uppercase";
+
+/*
+ * A table that turns into a stack of cards below the md breakpoint (phones): each row a card,
+ * each cell on its own line under its column's name, taken from the cell's data-label. The
+ * header row stays for screen readers only.
+ */
+export const stackTable = "max-md:block";
+export const stackHead = "max-md:sr-only";
+export const stackBody = "max-md:block";
+export const stackRow = "max-md:block max-md:px-1 max-md:py-2";
+export const stackCell =
+  "max-md:block max-md:py-1 max-md:before:block max-md:before:text-xs max-md:before:font-medium max-md:before:tracking-wide max-md:before:text-ink-2 max-md:before:uppercase max-md:before:content-[attr(data-label)]";

@@ -102,6 +102,9 @@ describe("usage of a period", () => {
     expect(res.headers["content-disposition"]).toMatch(/^attachment; filename="[^"]+\.csv"$/);
     const [header, ...lines] = res.text.trimEnd().split("\r\n");
     expect(header).toBe("day,endpoint,key_prefix,calls,units,errors");
+    // The counts are named as in the JSON report (and in GET /api/v1/usage): "errors", the word the console pages use too.
+    const json = await usage(`?from=${FROM}&to=${TO}`, fx.developer.cookie);
+    expect(header!.split(",").slice(3)).toEqual(Object.keys(json.body.totals));
     const cells = expected(inPeriod, (e) => `${e.at.slice(0, 10)},${e.endpoint},${prefixOf.get(e.keyId)}`);
     expect(lines).toHaveLength(cells.size);
     expect(new Set(lines)).toEqual(new Set([...cells].map(([k, s]) => `${k},${s.calls},${s.units},${s.errors}`)));

@@ -8,7 +8,7 @@ import { readFile } from "node:fs/promises";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
 import { CSV_HEADER } from "@/lib/console/usage";
 import { waitForMessage } from "@/fakes/mailbox";
-import { capture, linkIn, PHONE, screenshot, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { capture, DESKTOP, layoutProblems, linkIn, PHONE, screenshot, SCREENSHOT_DIR, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
 
 const [OWNER, DEVELOPER, BILLING] = DEMO_USERS as unknown as [(typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number]];
 const ORG = DEMO_ORG.slug;
@@ -58,6 +58,24 @@ async function cellNumber(s: Session, table: string, text: string, column: numbe
   const cell = row.locator("th, td").nth(column - 1);
   return Number((await cell.innerText()).replace(/[^\d]/g, ""));
 }
+
+/** Every console page, with the level-1 heading it opens on (roles that may not open a section get a note under the same heading). */
+const PAGES = [
+  { name: "summary", path: `/console/${ORG}`, heading: DEMO_ORG.name },
+  { name: "bench", path: `/console/${ORG}/try`, heading: "Try the endpoints" },
+  { name: "keys", path: `/console/${ORG}/keys`, heading: "API keys" },
+  { name: "meter", path: `/console/${ORG}/usage`, heading: "Usage" },
+  { name: "people", path: `/console/${ORG}/members`, heading: "Members and roles" },
+  { name: "ledger", path: `/console/${ORG}/audit`, heading: "Activity ledger" },
+  { name: "mailbox", path: "/console/dev/mailbox", heading: "Mailbox" },
+] as const;
+
+/** Where the console's section navigation starts, in page coordinates (null on pages outside the signed-in frame). */
+const navTop = (s: Session) =>
+  s.page.evaluate(() => {
+    const nav = document.querySelector('nav[aria-label="Console sections"]');
+    return nav ? Math.round(nav.getBoundingClientRect().top + window.scrollY) : null;
+  });
 
 describe("console in a browser", { timeout: 90_000 }, () => {
   test("signs in with an e-mail link read from the mailbox and lands in the console", async () => {
@@ -130,6 +148,20 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(await cellNumber(s, "Usage by key", "e2e capacity probe", 2)).toBe(1);
       await settle(page);
       await capture(page, "usage");
+
+      // One word for calls answered 400 or more, the API's: "errors" in the tables, the totals and the CSV; the y-axis names its unit.
+      expect(await page.locator("main, body").first().innerText()).not.toMatch(/refused/i);
+      const endpointHeads = (await page.getByRole("table", { name: "Usage by endpoint" }).getByRole("columnheader").allTextContents()).map((t) => t.trim().toLowerCase());
+      expect(endpointHeads).toEqual(["endpoint", "calls", "units", "errors"]);
+      await page.getByText("Errors", { exact: true }).first().waitFor();
+      await page.locator("svg text").filter({ hasText: /^compute units per day$/ }).waitFor();
+      await page.locator("code").filter({ hasText: CSV_HEADER }).first().waitFor();
+      // …the names of the fields of a row of GET /api/v1/usage, as the published OpenAPI document gives them.
+      const spec = JSON.stringify(await (await fetch(`${e2e.baseUrl}/api/v1/openapi.json`)).json());
+      for (const field of ["calls", "units", "errors"]) {
+        expect(CSV_HEADER.split(",")).toContain(field);
+        expect(spec).toContain(`"${field}":{"type":"integer"`);
+      }
 
       // The CSV export is the same period's cells: the documented header, and the new key's one call on today's row.
       const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Export CSV" }).click()]);
@@ -373,6 +405,72 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect(missing?.status()).toBe(404);
       await capture(page, "not-found");
     });
+  });
+
+  describe.each([
+    ["owner", OWNER],
+    ["developer", DEVELOPER],
+    ["billing", BILLING],
+  ] as const)("every console page fits the window for the %s role", (role, user) => {
+    test.each([
+      ["desktop", DESKTOP],
+      ["phone", PHONE],
+    ] as const)("at %s width: nothing scrolls sideways or is cut, every control is inside the window, the section navigation stays at the top", async (_w, viewport) => {
+      await inSession(
+        async (s) => {
+          const { page } = s;
+          await signInWithPassword(e2e, page, user.email, DEMO_PASSWORD);
+          const found: string[] = [];
+          const tops = new Map<string, number | null>();
+          for (const p of PAGES) {
+            await page.goto(`${e2e.baseUrl}${p.path}`);
+            await page.getByRole("heading", { level: 1, name: p.heading }).waitFor();
+            await settle(page);
+            found.push(...(await layoutProblems(page)).map((x) => `${p.name}: ${x}`));
+            tops.set(p.name, await navTop(s));
+            // Whole pages, git-ignored (*.tmp.png): for looking at, not for the record.
+            await page.screenshot({ path: `${SCREENSHOT_DIR}/${role}-${p.name}-${viewport.width}.tmp.png`, fullPage: true, animations: "disabled", caret: "hide" });
+          }
+          expect(found).toEqual([]);
+          // The same place on every page of the frame, and within the first screen (the bench's endpoint list comes after it).
+          const home = tops.get("summary")!;
+          expect(home).toBeLessThan(viewport.height / 2);
+          for (const p of PAGES) if (p.name !== "mailbox") expect(tops.get(p.name), p.name).toBe(home);
+        },
+        { viewport },
+      );
+    });
+  });
+
+  test.each([
+    ["desktop", DESKTOP],
+    ["phone", PHONE],
+  ] as const)("at %s width the bench, opened from the sections and with another endpoint chosen, keeps the section navigation where the summary has it, above the endpoint list", async (_w, viewport) => {
+    await inSession(
+      async (s) => {
+        const { page } = s;
+        await signInWithPassword(e2e, page, DEVELOPER.email, DEMO_PASSWORD);
+        await page.waitForURL(`${e2e.baseUrl}/console/${ORG}`);
+        await settle(page);
+        const inView = () => page.evaluate(() => Math.round(document.querySelector('nav[aria-label="Console sections"]')!.getBoundingClientRect().top));
+        const home = await inView();
+        expect(home).toBeGreaterThanOrEqual(0);
+        expect(home).toBeLessThan(viewport.height / 2);
+        if (viewport === PHONE) await page.getByRole("button", { name: /^Sections/ }).click();
+        await sectionLink(s, "Bench").click();
+        await page.getByRole("heading", { level: 1, name: "Try the endpoints" }).waitFor();
+        await settle(page);
+        expect(await inView()).toBe(home);
+        const picker = viewport === PHONE ? page.getByLabel("Endpoint", { exact: true }) : page.getByRole("navigation", { name: "Endpoints" });
+        const pickerTop = (await picker.boundingBox())!.y;
+        expect(pickerTop).toBeGreaterThan(home);
+        if (viewport === PHONE) await picker.selectOption({ label: "POST /capacity" });
+        else await picker.getByRole("button", { name: "POST /capacity" }).click();
+        await page.getByRole("heading", { name: "POST /api/v1/capacity" }).waitFor();
+        expect(await inView()).toBe(home);
+      },
+      { viewport },
+    );
   });
 
   test("the keys page fits a phone screen", async () => {

@@ -420,3 +420,44 @@ export async function settle(page: Page): Promise<void> {
   await page.waitForLoadState("load");
   await page.waitForFunction(() => document.querySelectorAll('[data-loading], [role="status"][aria-live="polite"] .animate-pulse').length === 0);
 }
+
+/**
+ * What does not fit the width of the window, one line each: the page scrolling sideways, a box
+ * that scrolls or cuts its content sideways (code listings excepted: long lines of code scroll on
+ * purpose), a control or link reaching past either edge, and a select too narrow for its chosen option.
+ */
+export async function layoutProblems(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const problems: string[] = [];
+    const width = window.innerWidth;
+    const name = (el: Element) => {
+      const label = el.getAttribute("aria-label") ?? (el.textContent ?? "").trim().replace(/\s+/g, " ").slice(0, 60);
+      return `<${el.tagName.toLowerCase()}> "${label}"`;
+    };
+    const shown = (el: Element) => {
+      const r = el.getBoundingClientRect();
+      return r.width > 1 && r.height > 1 && getComputedStyle(el).visibility !== "hidden";
+    };
+    const page = document.documentElement.scrollWidth - width;
+    if (page > 0) problems.push(`the page scrolls sideways by ${page} px`);
+    for (const el of document.body.querySelectorAll("*")) {
+      if (!shown(el) || el.closest("pre, svg, [aria-hidden='true']")) continue;
+      const st = getComputedStyle(el);
+      if (st.overflowX !== "visible" && el.scrollWidth > el.clientWidth + 1 && !el.querySelector(":scope > pre, :scope > code")) {
+        problems.push(`${name(el)} cuts or scrolls its content sideways (${el.scrollWidth} px in ${el.clientWidth} px)`);
+      }
+      if (el.matches("a[href], button, select, input:not([type=hidden]), textarea, summary")) {
+        const r = el.getBoundingClientRect();
+        if (r.left < -1 || r.right > width + 1) problems.push(`${name(el)} reaches past the window (${Math.round(r.left)}–${Math.round(r.right)} px of ${width})`);
+      }
+      if (el instanceof HTMLSelectElement && el.selectedOptions[0]) {
+        const ctx = document.createElement("canvas").getContext("2d")!;
+        ctx.font = `${st.fontWeight} ${st.fontSize} ${st.fontFamily}`;
+        const text = ctx.measureText(el.selectedOptions[0].text).width;
+        const room = el.clientWidth - parseFloat(st.paddingLeft) - parseFloat(st.paddingRight);
+        if (text > room + 1) problems.push(`${name(el)} shows ${Math.round(room)} px of its ${Math.round(text)} px choice "${el.selectedOptions[0].text}"`);
+      }
+    }
+    return problems;
+  });
+}

@@ -3,6 +3,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { useId, useMemo, useState } from "react";
 import { KeyStateBadge, ModeBadge } from "@/components/console/badges";
+import { Email } from "@/components/console/email";
 import { IconBan, IconPlus, IconRotate } from "@/components/console/icons";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
@@ -177,8 +178,14 @@ function KeyList({ org }: { org: string }) {
                   </td>
                   <td className="px-3 py-2.5">
                     <When iso={k.createdAt} />
-                    <span className="block max-w-[10rem] truncate text-xs text-ink-2" title={k.createdBy?.email}>
-                      {k.createdBy ? `by ${k.createdBy.email}` : "by the operator CLI"}
+                    <span className="block max-w-[12rem] text-xs text-ink-2">
+                      {k.createdBy ? (
+                        <>
+                          by <Email address={k.createdBy.email} />
+                        </>
+                      ) : (
+                        "by the operator CLI"
+                      )}
                     </span>
                   </td>
                   <td className="px-3 py-2.5"><When iso={k.lastUsedAt} /></td>

@@ -9,7 +9,7 @@ import { Email } from "@/components/console/email";
 import { useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
 import { Empty, LoadError, Loading } from "@/components/console/states";
-import { buttonQuiet, buttonQuietDanger, buttonSmall, panel, selectBase, tableHead } from "@/components/console/ui";
+import { buttonQuiet, buttonQuietDanger, buttonSmall, panel, selectBase, stackBody, stackCell, stackHead, stackRow, stackTable, tableHead } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
 import { useMe } from "@/lib/console-client/hooks";
@@ -144,19 +144,19 @@ function Confirmations({ org, pending, open, onClose }: { org: string; pending: 
 function MemberRow({ m, me, isOwner, onPending }: { m: Member; me: number | undefined; isOwner: boolean; onPending: (p: Pending) => void }) {
   const self = m.userId === me;
   return (
-    <tr className="border-t border-rule align-top">
-      <th scope="row" className="px-3 py-2.5 text-left font-normal">
+    <tr className={`border-t border-rule align-top ${stackRow}`}>
+      <th scope="row" className={`px-3 py-2.5 text-left font-normal ${stackCell}`}>
         <span className="block font-medium">
           {m.name ?? m.email}
           {self ? <span className="ml-2 rounded bg-sunken px-1.5 py-px text-xs font-normal text-ink-2">you</span> : null}
         </span>
         {m.name ? <Email address={m.email} className="block text-xs text-ink-2" /> : null}
       </th>
-      <td className="px-3 py-2.5">
+      <td className={`px-3 py-2.5 ${stackCell}`} data-label="Role">
         {isOwner ? (
           <select
             aria-label={`Role of ${m.email}`}
-            className={`${selectBase} w-36 py-1`}
+            className={`${selectBase} mt-0.5 w-full max-w-xs py-1 md:mt-0 md:w-36`}
             value={m.role}
             onChange={(e) => onPending({ kind: "role", member: m, role: e.target.value as Role })}
           >
@@ -170,12 +170,12 @@ function MemberRow({ m, me, isOwner, onPending }: { m: Member; me: number | unde
           <RoleBadge role={m.role} />
         )}
       </td>
-      <td className="px-3 py-2.5">
+      <td className={`px-3 py-2.5 ${stackCell}`} data-label="Joined">
         <time dateTime={m.joinedAt} title={formatDateTime(m.joinedAt)}>
           {formatRelative(m.joinedAt)}
         </time>
       </td>
-      <td className="px-3 py-2">
+      <td className={`px-3 py-2 ${stackCell}`}>
         <div className="flex flex-wrap gap-1">
           {isOwner && !self && m.role !== "owner" ? (
             <button type="button" className={`${buttonQuiet} ${buttonSmall}`} onClick={() => onPending({ kind: "transfer", member: m })}>
@@ -237,9 +237,9 @@ export function MembersView() {
         ) : (
           <>
             <div className={`${panel} overflow-x-auto`}>
-              <table className="w-full min-w-[36rem] border-collapse text-sm">
+              <table className={`w-full border-collapse text-sm md:min-w-[36rem] ${stackTable}`}>
                 <caption className="sr-only">Members of {org.name}</caption>
-                <thead className={tableHead}>
+                <thead className={`${tableHead} ${stackHead}`}>
                   <tr>
                     <th scope="col" className="px-3 py-2 font-medium">Person</th>
                     <th scope="col" className="px-3 py-2 font-medium">Role</th>
@@ -247,7 +247,7 @@ export function MembersView() {
                     <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Actions</span></th>
                   </tr>
                 </thead>
-                <tbody>
+                <tbody className={stackBody}>
                   {members.data.members.map((m) => (
                     <MemberRow key={m.userId} m={m} me={myId} isOwner={isOwner} onPending={ask} />
                   ))}
@@ -274,9 +274,9 @@ export function MembersView() {
             </Empty>
           ) : (
             <div className={`${panel} overflow-x-auto`}>
-              <table className="w-full min-w-[36rem] border-collapse text-sm">
+              <table className={`w-full border-collapse text-sm md:min-w-[36rem] ${stackTable}`}>
                 <caption className="sr-only">Pending invitations</caption>
-                <thead className={tableHead}>
+                <thead className={`${tableHead} ${stackHead}`}>
                   <tr>
                     <th scope="col" className="px-3 py-2 font-medium">E-mail</th>
                     <th scope="col" className="px-3 py-2 font-medium">Role</th>
@@ -285,7 +285,7 @@ export function MembersView() {
                     <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Actions</span></th>
                   </tr>
                 </thead>
-                <tbody>
+                <tbody className={stackBody}>
                   {members.data.invitations.map((i) => (
                     <InvitationRow key={i.id} i={i} onRevoke={() => ask({ kind: "revoke-invite", invitation: i })} />
                   ))}
@@ -304,18 +304,18 @@ export function MembersView() {
 function InvitationRow({ i, onRevoke }: { i: Invitation; onRevoke: () => void }) {
   const [expired] = useState(() => Date.parse(i.expiresAt) <= Date.now());
   return (
-    <tr className="border-t border-rule align-top">
-      <th scope="row" className="px-3 py-2.5 text-left font-medium">
+    <tr className={`border-t border-rule align-top ${stackRow}`}>
+      <th scope="row" className={`px-3 py-2.5 text-left font-medium ${stackCell}`}>
         <Email address={i.email} />
       </th>
-      <td className="px-3 py-2.5"><RoleBadge role={i.role} /></td>
-      <td className="px-3 py-2.5 text-ink-2">{i.invitedBy?.email ?? "—"}</td>
-      <td className="px-3 py-2.5">
+      <td className={`px-3 py-2.5 ${stackCell}`} data-label="Role"><RoleBadge role={i.role} /></td>
+      <td className={`px-3 py-2.5 text-ink-2 ${stackCell}`} data-label="Invited by">{i.invitedBy?.email ?? "—"}</td>
+      <td className={`px-3 py-2.5 ${stackCell}`} data-label="Link valid">
         <time dateTime={i.expiresAt} title={formatDateTime(i.expiresAt)} className={expired ? "text-ink-2" : undefined}>
           {expired ? `ran out ${formatRelative(i.expiresAt)}` : formatRelative(i.expiresAt)}
         </time>
       </td>
-      <td className="px-3 py-2">
+      <td className={`px-3 py-2 ${stackCell}`}>
         <button type="button" className={`${buttonQuietDanger} ${buttonSmall}`} onClick={onRevoke} aria-label={`Withdraw the invitation to ${i.email}`}>
           Withdraw
         </button>

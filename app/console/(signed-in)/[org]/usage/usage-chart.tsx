@@ -16,13 +16,13 @@ function DayTip({ active, payload }: TooltipContentProps) {
         <span className="font-mono tabular-nums">{formatInt(d.units)}</span> units
       </p>
       <p className="text-ink-2">
-        {formatInt(d.calls)} calls{d.errors ? ` · ${formatInt(d.errors)} refused` : ""}
+        {formatInt(d.calls)} calls{d.errors ? ` · ${formatInt(d.errors)} ${d.errors === 1 ? "error" : "errors"}` : ""}
       </p>
     </div>
   );
 }
 
-/** Compute units a day as bars; days without use show as gaps on the baseline. */
+/** Compute units a day as bars, the y-axis named with its unit; days without use show as gaps on the baseline. */
 export function UsageChart({ daily }: { daily: Day[] }) {
   return (
     <div className="h-64 w-full sm:h-72">
@@ -40,7 +40,8 @@ export function UsageChart({ daily }: { daily: Day[] }) {
           />
           <YAxis
             allowDecimals={false}
-            width={48}
+            width={64}
+            label={{ value: "compute units per day", angle: -90, position: "insideLeft", style: { textAnchor: "middle", fill: "var(--pa-ink-2)", fontSize: 12 } }}
             tick={{ fill: "var(--pa-ink-2)", fontSize: 12 }}
             axisLine={false}
             tickLine={false}

@@ -27,7 +27,7 @@ const endpointColumns: Column<EndpointRow>[] = [
   { id: "endpoint", accessorKey: "endpoint", header: "Endpoint", cell: (c) => <code className="font-mono text-[0.8125rem]">{c.row.original.endpoint}</code> },
   { id: "calls", accessorKey: "calls", header: "Calls", cell: (c) => num(c.row.original.calls) },
   { id: "units", accessorKey: "units", header: "Units", cell: (c) => num(c.row.original.units) },
-  { id: "errors", accessorKey: "errors", header: "Refused", cell: (c) => num(c.row.original.errors) },
+  { id: "errors", accessorKey: "errors", header: "Errors", cell: (c) => num(c.row.original.errors) },
 ];
 
 const keyColumns: Column<KeyRow>[] = [
@@ -118,7 +118,7 @@ export function UsageView() {
       <PageHeader
         eyebrow="Meter"
         title="Usage"
-        lead="Compute units the organisation's keys used, by UTC day, endpoint and key. Refused calls are counted but cost nothing."
+        lead="Compute units the organisation's keys used, by UTC day, endpoint and key. Errors are calls answered with a status of 400 or more: they are counted but cost no units."
         actions={
           <a href={consoleApi.usageCsvHref(org.slug, period.from, period.to)} download className={buttonSecondary}>
             <IconDownload className="h-4 w-4" />
@@ -160,7 +160,7 @@ export function UsageView() {
               [
                 ["Compute units", d!.totals.units],
                 ["Calls", d!.totals.calls],
-                ["Refused calls", errorsTotal],
+                ["Errors", errorsTotal],
               ] as const
             ).map(([label, value]) => (
               <div key={label} className={`${panel} p-4`}>
@@ -196,7 +196,7 @@ export function UsageView() {
                           <th scope="col" className="px-3 py-1.5 font-medium">Day (UTC)</th>
                           <th scope="col" className="px-3 py-1.5 text-right font-medium">Units</th>
                           <th scope="col" className="px-3 py-1.5 text-right font-medium">Calls</th>
-                          <th scope="col" className="px-3 py-1.5 text-right font-medium">Refused</th>
+                          <th scope="col" className="px-3 py-1.5 text-right font-medium">Errors</th>
                         </tr>
                       </thead>
                       <tbody>
@@ -233,7 +233,7 @@ export function UsageView() {
         </>
       )}
       <p className="text-xs text-ink-2">
-        The CSV has one line per day, endpoint and key: <code className="font-mono">day,endpoint,key_prefix,calls,units,errors</code>.{" "}
+        The CSV has one line per day, endpoint and key: <code className="font-mono break-all">day,endpoint,key_prefix,calls,units,errors</code>, the same names as the fields of <code className="font-mono">GET /api/v1/usage</code>.{" "}
         <a href={consoleApi.usageCsvHref(org.slug, period.from, period.to)} download>
           Download it for this period
         </a>
