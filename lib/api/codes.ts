@@ -227,6 +227,19 @@ export const codeSummary = z
     crc: z
       .object({ width: z.number().int(), poly: z.string(), init: z.string(), refin: z.boolean(), refout: z.boolean(), xorout: z.string() })
       .optional(),
+    conventions: z
+      .object({
+        firstRoot: z.number().int().optional().meta({ description: "Reed–Solomon: b, the generator's first root α^b (default 1; QR codes use 0)." }),
+        primitivePoly: z.string().optional().meta({ description: "BCH and Reed–Solomon: the field polynomial in hex, with its top bit (default: the built-in primitive polynomial of degree m)." }),
+        primitiveElement: z.number().int().optional().meta({ description: "Reed–Solomon: α as a field element (default 2, i.e. x)." }),
+        n: z.number().int().optional().meta({ description: "Reed–Solomon: the length in symbols (default 2^m − 1, the full length)." }),
+      })
+      .optional()
+      .meta({
+        description:
+          "BCH and Reed–Solomon: the conventions in force, whether the request stated them or left them to the defaults named on each field. " +
+          "Standards set these differently; compare them with the standard you mean.",
+      }),
   })
   .meta({ id: "CodeSummary" });
 
@@ -238,6 +251,13 @@ export function summarize(code: BlockCode, spec: CodeSpec): z.output<typeof code
         ? { coefficients: (code as RsCode).generator }
         : undefined;
   const crc = spec.family === "crc" ? crcParams(spec) : undefined;
+  const fieldHex = (poly: number) => "0x" + poly.toString(16);
+  const conventions =
+    code.family === "reed-solomon"
+      ? { firstRoot: (code as RsCode).firstRoot, primitivePoly: fieldHex((code as RsCode).primitivePoly), primitiveElement: (code as RsCode).primitiveElement, n: code.n }
+      : code.family === "bch"
+        ? { primitivePoly: fieldHex((code as BchCode).primitivePoly) }
+        : undefined;
   return {
     family: spec.family,
     name: code.name,
@@ -254,6 +274,7 @@ export function summarize(code: BlockCode, spec: CodeSpec): z.output<typeof code
     supportsErasures: code.supportsErasures,
     ...(gp ? { generatorPolynomial: gp } : {}),
     ...(crc ? { crc: { width: crc.width, poly: crcHex(crc.poly, crc.width), init: crcHex(crc.init, crc.width), refin: crc.refin, refout: crc.refout, xorout: crcHex(crc.xorout, crc.width) } } : {}),
+    ...(conventions ? { conventions } : {}),
   };
 }
 

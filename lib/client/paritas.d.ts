@@ -308,6 +308,17 @@ export interface components {
                 refout: boolean;
                 xorout: string;
             };
+            /** @description BCH and Reed–Solomon: the conventions in force, whether the request stated them or left them to the defaults named on each field. Standards set these differently; compare them with the standard you mean. */
+            conventions?: {
+                /** @description Reed–Solomon: b, the generator's first root α^b (default 1; QR codes use 0). */
+                firstRoot?: number;
+                /** @description BCH and Reed–Solomon: the field polynomial in hex, with its top bit (default: the built-in primitive polynomial of degree m). */
+                primitivePoly?: string;
+                /** @description Reed–Solomon: α as a field element (default 2, i.e. x). */
+                primitiveElement?: number;
+                /** @description Reed–Solomon: the length in symbols (default 2^m − 1, the full length). */
+                n?: number;
+            };
         };
         /** @description RFC 9457 problem details. */
         Problem: {
