@@ -36,7 +36,7 @@ export function buildOpenApiDocument() {
   const bearer = registry.registerComponent("securitySchemes", "apiKey", {
     type: "http",
     scheme: "bearer",
-    description: "An API key: `Authorization: Bearer prt_live_…` (or `prt_test_…`).",
+    description: "An API key: `Authorization: Bearer live.prt1.…` (or `test.prt1.…`); see the README for the grammar and checksum.",
   });
 
   for (const e of endpoints) {

@@ -69,7 +69,7 @@ program
   .command("revoke")
   .description("revoke a key at once, by id or by its visible prefix")
   .requiredOption("--org <slug>", "organisation slug")
-  .argument("<key>", "key id or visible prefix (e.g. prt_live_Ab12)")
+  .argument("<key>", "key id or visible prefix (e.g. live.prt1.Ab12)")
   .action(async (ref: string, o: { org: string }) => {
     const org = await orgOrExit(o.org);
     const db = await getDb();

@@ -3,16 +3,33 @@ import { crc32 } from "node:zlib";
 import type { KeyMode } from "@/db/schema";
 
 /**
- * Key format: `prt_<mode>_<32 random base62 chars><6 base62 chars of CRC-32 over the random part>`.
- * 32 base62 characters carry 32·log2(62) ≈ 190 bits. The checksum lets a secret scanner
- * recognise a real key offline, and lets us reject typos before touching the database.
+ * Key format (version 1), mode first so it reads at a glance:
+ *
+ *   key   = mode "." "prt1" "." body check
+ *   mode  = "live" / "test"
+ *   body  = 30 base62      ; random, 30·log2(62) ≈ 178.6 bits
+ *   check = 6 base62       ; CRC-32 of everything before it, base62, most significant digit first
+ *
+ * The checksum covers the mode and version too, so flipping "test" to "live" is caught. CRC-32
+ * detects every single-character change (a burst shorter than 32 bits), and 62^6 > 2^32 keeps
+ * distinct CRCs distinct. A scanner finds keys with KEY_SCAN_PATTERN and confirms them with the
+ * checksum, offline.
  */
 const ALPHABET = "0123456789ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz";
-const BODY_LEN = 32;
+export const KEY_VERSION = "prt1";
+export const KEY_BODY_LEN = 30;
 const CHECK_LEN = 6;
-export const KEY_PATTERN = /^prt_(live|test)_([0-9A-Za-z]{32})([0-9A-Za-z]{6})$/;
-/** Characters of the key kept visible in lists: mode plus the first four random characters. */
-const VISIBLE_LEN = "prt_live_".length + 4;
+export const KEY_PATTERN = /^(live|test)\.prt1\.([0-9A-Za-z]{30})([0-9A-Za-z]{6})$/;
+/** For scanning text: matches candidate keys anywhere; confirm each with isWellFormedKey. */
+export const KEY_SCAN_PATTERN = /(?<![0-9A-Za-z.])(?:live|test)\.prt1\.[0-9A-Za-z]{36}(?![0-9A-Za-z])/g;
+/** Characters kept visible in lists: mode, version and the first four random characters. */
+const VISIBLE_LEN = "live.prt1.".length + 4;
+
+/**
+ * The format issued before version 1: `prt_<mode>_<32 base62><6 base62 of CRC-32 of the 32>`.
+ * Such keys keep authenticating until they are rotated or revoked; none are issued any more.
+ */
+const LEGACY_PATTERN = /^prt_(live|test)_([0-9A-Za-z]{32})([0-9A-Za-z]{6})$/;
 
 function base62(n: number, width: number): string {
   let s = "";
@@ -23,21 +40,26 @@ function base62(n: number, width: number): string {
   return s;
 }
 
-const checksum = (body: string) => base62(crc32(body), CHECK_LEN);
+const checksum = (text: string) => base62(crc32(text), CHECK_LEN);
+
+/** The part of a key shown in lists and stored in the prefix column. */
+export const visiblePrefix = (key: string) => key.slice(0, VISIBLE_LEN);
 
 export function generateKey(mode: KeyMode): { key: string; prefix: string; hash: string } {
   let body = "";
-  for (let i = 0; i < BODY_LEN; i++) body += ALPHABET[randomInt(62)];
-  const key = `prt_${mode}_${body}${checksum(body)}`;
-  return { key, prefix: key.slice(0, VISIBLE_LEN), hash: hashKey(key) };
+  for (let i = 0; i < KEY_BODY_LEN; i++) body += ALPHABET[randomInt(62)];
+  const unchecked = `${mode}.${KEY_VERSION}.${body}`;
+  const key = unchecked + checksum(unchecked);
+  return { key, prefix: visiblePrefix(key), hash: hashKey(key) };
 }
 
 export const hashKey = (key: string) => createHash("sha256").update(key).digest("hex");
 
-/** Well-formed and its checksum matches. */
+/** Well-formed and its checksum matches, in the current format or the legacy one. */
 export function isWellFormedKey(key: string): boolean {
-  const m = KEY_PATTERN.exec(key);
-  return !!m && checksum(m[2]!) === m[3];
+  if (KEY_PATTERN.test(key)) return checksum(key.slice(0, -CHECK_LEN)) === key.slice(-CHECK_LEN);
+  const legacy = LEGACY_PATTERN.exec(key);
+  return !!legacy && checksum(legacy[2]!) === legacy[3];
 }
 
 export function hashesEqual(a: string, b: string): boolean {

@@ -45,8 +45,8 @@ export const consoleApi = {
 
   keys: (org: string, signal?: AbortSignal) => consoleFetch<{ keys: KeyRecord[] }>(`${orgPath(org)}/keys`, { signal }),
   createKey: (org: string, body: NewKeyInput) => consoleFetch<IssuedKey>(`${orgPath(org)}/keys`, { method: "POST", body }),
-  rotateKey: (org: string, id: number, overlapHours: number) =>
-    consoleFetch<RotatedKey>(`${orgPath(org)}/keys/${id}/rotate`, { method: "POST", body: { overlapHours } }),
+  rotateKey: (org: string, id: number, overlapMinutes: number) =>
+    consoleFetch<RotatedKey>(`${orgPath(org)}/keys/${id}/rotate`, { method: "POST", body: { overlapMinutes } }),
   revokeKey: (org: string, id: number) => consoleFetch<{ record: KeyRecord }>(`${orgPath(org)}/keys/${id}/revoke`, { method: "POST" }),
   tryKey: (org: string) => consoleFetch<TryKey>(`${orgPath(org)}/try-key`, { method: "POST" }),
 

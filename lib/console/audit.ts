@@ -87,7 +87,7 @@ function subject(c: Context, a: AuditActor): SentencePart {
   return a.name.charAt(0).toUpperCase() + a.name.slice(1);
 }
 
-/** “name” (prt_live_Ab12…), the prefix linked to the keys page. */
+/** “name” (live.prt1.Ab12…), the prefix linked to the keys page. */
 function key(c: Context, id: number, details: Record<string, unknown>): SentencePart[] {
   const k = c.keys.get(id);
   const name = k?.name ?? str(details.name);

@@ -35,7 +35,7 @@ describe("keys command", () => {
     const key = stdout.trim();
     expect(stdout.split("\n").filter(Boolean)).toHaveLength(1);
     expect(isWellFormedKey(key)).toBe(true);
-    expect(key.startsWith("prt_test_")).toBe(true);
+    expect(key.startsWith("test.prt1.")).toBe(true);
     const row = await db.selectFrom("api_keys").selectAll().where("key_hash", "=", hashKey(key)).executeTakeFirstOrThrow();
     expect([row.name, row.scopes, row.mode]).toEqual(["ci", "compute", "test"]);
   }, 60_000);

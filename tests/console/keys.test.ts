@@ -1,10 +1,12 @@
 import { beforeEach, describe, expect, it, vi } from "vitest";
 import { listAudit } from "@/db/queries/audit";
 import { createKey } from "@/lib/api/key-service";
+import { insertApiKey } from "@/db/queries/api-keys";
 import { hashKey, isWellFormedKey } from "@/lib/api/keys";
 import { sendMail } from "@/lib/mail/send";
 import { expectFieldError, expectProblem, getQuery, postJson } from "../helpers/api";
 import { consoleCall, makeConsoleOrg, sentMails, type ConsoleFixture, type Person } from "../helpers/console";
+import { forgeWellFormedKey } from "../helpers/security";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
 
@@ -33,7 +35,8 @@ const listKeys = async (p: Person): Promise<KeyRecord[]> => {
   expect(res.status, res.text).toBe(200);
   return res.body.keys;
 };
-const rotate = (p: Person, id: number, overlapHours: unknown) => consoleCall("POST", `${keysPath()}/${id}/rotate`, { cookie: p.cookie, body: { overlapHours } });
+const rotateWith = (p: Person, id: number, body: Record<string, unknown>) => consoleCall("POST", `${keysPath()}/${id}/rotate`, { cookie: p.cookie, body });
+const rotate = (p: Person, id: number, overlapMinutes: unknown) => rotateWith(p, id, { overlapMinutes });
 const revoke = (p: Person, id: number) => consoleCall("POST", `${keysPath()}/${id}/revoke`, { cookie: p.cookie });
 /** One call of the public API with a key: the status it gets. */
 const capacityWith = async (key: string) => (await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${key}`)).status;
@@ -72,7 +75,7 @@ describe("creating", () => {
     expect(res.status, res.text).toBe(201);
     const { key, record } = res.body as { key: string; record: KeyRecord };
     expect(isWellFormedKey(key)).toBe(true);
-    expect(key.startsWith("prt_live_")).toBe(true);
+    expect(key.startsWith("live.prt1.")).toBe(true);
     expect(record).toMatchObject({ name: "buoy CI", mode: "live", scopes: ["compute"], createdBy: { id: fx.developer.id, email: fx.developer.email }, state: "active" });
     expect(key.startsWith(record.prefix)).toBe(true);
     expect(await capacityWith(key)).toBe(200);
@@ -126,7 +129,7 @@ describe("creating", () => {
 describe("rotation with an overlap window", () => {
   it("both keys work inside the window; after it the old key gets 401 and the new one still works", async () => {
     const old = fx.keys.owner;
-    const res = await rotate(fx.owner, old.record.id, 24);
+    const res = await rotate(fx.owner, old.record.id, 24 * 60);
     expect(res.status, res.text).toBe(201);
     const { key, record, previous } = res.body as { key: string; record: KeyRecord; previous: { id: number; expiresAt: string } };
     expect(previous.id).toBe(old.record.id);
@@ -148,7 +151,7 @@ describe("rotation with an overlap window", () => {
 
     const audit = (await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.rotated");
     expect(audit).toHaveLength(1);
-    expect(JSON.parse(audit[0]!.details)).toMatchObject({ newKeyId: record.id, overlapHours: 24 });
+    expect(JSON.parse(audit[0]!.details)).toMatchObject({ newKeyId: record.id, overlapMinutes: 24 * 60, overlapHours: 24 });
     expect(ownerMailsAbout(old.record.prefix)).toEqual(owners());
   });
 
@@ -163,25 +166,53 @@ describe("rotation with an overlap window", () => {
   it("never lengthens a key's life: an earlier expiry stays", async () => {
     const soon = new Date(Date.now() + 3600_000).toISOString();
     const short = await createKey(fx.db, { orgId: fx.org.id, name: "short", mode: "test", scopes: ["compute"], expiresAt: soon, createdByUserId: fx.owner.id }, "test");
-    const res = await rotate(fx.owner, short.record.id, 720);
+    const res = await rotate(fx.owner, short.record.id, 7 * 24 * 60);
     expect(res.body.previous.expiresAt).toBe(soon);
   });
 
   it("the new key stays with the old key's creator, so a developer sees the key an owner rotated for them", async () => {
-    const res = await rotate(fx.owner, fx.keys.developer.record.id, 1);
+    const res = await rotate(fx.owner, fx.keys.developer.record.id, 60);
     expect(res.body.record.createdBy).toEqual({ id: fx.developer.id, email: fx.developer.email });
     expect((await listKeys(fx.developer)).map((k) => k.id)).toContain(res.body.record.id);
   });
 
   it("409 for a revoked or an expired key", async () => {
     await revoke(fx.owner, fx.keys.spare.record.id);
-    expectProblem(await rotate(fx.owner, fx.keys.spare.record.id, 1), 409, "key-inactive");
+    expectProblem(await rotate(fx.owner, fx.keys.spare.record.id, 60), 409, "key-inactive");
     await rotate(fx.owner, fx.keys.owner.record.id, 0);
-    expectProblem(await rotate(fx.owner, fx.keys.owner.record.id, 1), 409, "key-inactive");
+    expectProblem(await rotate(fx.owner, fx.keys.owner.record.id, 60), 409, "key-inactive");
   });
 
-  it.each([[721], [-1], [1.5], ["24"], [null]])("422 for overlapHours %j", async (overlapHours) => {
-    expectFieldError(await rotate(fx.owner, fx.keys.owner.record.id, overlapHours), "/overlapHours");
+  it.each([[90, 90], [7 * 24 * 60, 7 * 24 * 60]])("takes any whole number of minutes up to 7 days: %j", async (overlapMinutes, expected) => {
+    const res = await rotate(fx.owner, fx.keys.owner.record.id, overlapMinutes);
+    expect(res.status, res.text).toBe(201);
+    expect(Math.abs(Date.parse(res.body.previous.expiresAt) - (Date.now() + expected * 60_000))).toBeLessThan(60_000);
+  });
+
+  it("still takes whole overlapHours (up to 168) from older clients", async () => {
+    const res = await rotateWith(fx.owner, fx.keys.owner.record.id, { overlapHours: 168 });
+    expect(res.status, res.text).toBe(201);
+    expect(Math.abs(Date.parse(res.body.previous.expiresAt) - (Date.now() + 168 * 3600_000))).toBeLessThan(60_000);
+  });
+
+  it.each([
+    [7 * 24 * 60 + 1, /at most 10080 minutes/],
+    [-1, /negative/],
+    [1.5, /whole number of minutes/],
+    ["60", /whole number of minutes/],
+    [null, /whole number of minutes/],
+  ])("422 with a pointer for overlapMinutes %j, and the key keeps working", async (overlapMinutes, message) => {
+    expectFieldError(await rotate(fx.owner, fx.keys.owner.record.id, overlapMinutes), "/overlapMinutes", message);
+    expect(await capacityWith(fx.keys.owner.key)).toBe(200);
+  });
+
+  it.each([[169], [721], [-1], [1.5], ["24"], [null]])("422 for overlapHours %j", async (overlapHours) => {
+    expectFieldError(await rotateWith(fx.owner, fx.keys.owner.record.id, { overlapHours }), "/overlapHours");
+    expect(await capacityWith(fx.keys.owner.key)).toBe(200);
+  });
+
+  it.each([[{}], [{ overlapMinutes: 60, overlapHours: 1 }]])("422 unless exactly one of overlapMinutes and overlapHours is given: %j", async (body) => {
+    expectFieldError(await rotateWith(fx.owner, fx.keys.owner.record.id, body), "/overlapMinutes", /exactly one/);
     expect(await capacityWith(fx.keys.owner.key)).toBe(200);
   });
 
@@ -189,6 +220,49 @@ describe("rotation with an overlap window", () => {
     expectProblem(await rotate(fx.developer, fx.keys.owner.record.id, 1), 404, "not-found");
     expectProblem(await rotate(fx.developer, 999999, 1), 404, "not-found");
     expect(await capacityWith(fx.keys.owner.key)).toBe(200);
+  });
+});
+
+describe("keys issued in the earlier prt_<mode>_ format", () => {
+  /** A stored key in the old format, as the key service issued them before (hash and 13-character prefix). */
+  async function legacyKey(name: string) {
+    const key = forgeWellFormedKey("test");
+    const record = await insertApiKey(fx.db, {
+      org_id: fx.org.id,
+      name,
+      mode: "test",
+      prefix: key.slice(0, "prt_test_".length + 4),
+      key_hash: hashKey(key),
+      scopes: "compute usage:read",
+      created_by_user_id: fx.owner.id,
+      created_at: new Date().toISOString(),
+      expires_at: null,
+      rotated_from_key_id: null,
+    });
+    return { key, record };
+  }
+
+  it("keep authenticating; rotation replaces one by a key in the current format, with the chosen overlap", async () => {
+    const old = await legacyKey("legacy ci");
+    expect(old.key).toMatch(/^prt_test_[0-9A-Za-z]{38}$/);
+    expect(await capacityWith(old.key)).toBe(200);
+
+    const res = await rotate(fx.owner, old.record.id, 30);
+    expect(res.status, res.text).toBe(201);
+    const fresh = res.body.key as string;
+    expect(fresh).toMatch(/^test\.prt1\.[0-9A-Za-z]{36}$/);
+    expect(isWellFormedKey(fresh)).toBe(true);
+    expect(Math.abs(Date.parse(res.body.previous.expiresAt) - (Date.now() + 30 * 60_000))).toBeLessThan(60_000);
+    expect(await capacityWith(old.key)).toBe(200);
+    expect(await capacityWith(fresh)).toBe(200);
+  });
+
+  it("stop at once when revoked", async () => {
+    const old = await legacyKey("legacy bench");
+    expect(await capacityWith(old.key)).toBe(200);
+    expect((await revoke(fx.owner, old.record.id)).status).toBe(200);
+    const refused = await postJson("/api/v1/capacity", { channel: "bsc", p: 0.1 }, `Bearer ${old.key}`);
+    expect(expectProblem(refused, 401, "unauthenticated").detail).toMatch(/revoked/);
   });
 });
 
@@ -215,7 +289,7 @@ describe("the try key", () => {
     const res = await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/try-key`, { cookie: fx.developer.cookie });
     expect(res.status, res.text).toBe(201);
     const { key, expiresAt } = res.body as { key: string; expiresAt: string };
-    expect(key.startsWith("prt_test_")).toBe(true);
+    expect(key.startsWith("test.prt1.")).toBe(true);
     expect(Math.abs(Date.parse(expiresAt) - (Date.now() + 3600_000))).toBeLessThan(60_000);
     expect(await capacityWith(key)).toBe(200);
     expect((await getQuery("/api/v1/usage", {}, `Bearer ${key}`)).status).toBe(200);

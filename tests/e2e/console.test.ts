@@ -178,7 +178,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       const prefix = key.slice(0, 13);
       await page.getByRole("button", { name: `Rotate e2e capacity probe (${prefix})` }).first().click();
       const rotate = page.getByRole("dialog", { name: "Rotate e2e capacity probe" });
-      await rotate.getByLabel(/^1 hour/).check();
+      await rotate.getByLabel("Overlap", { exact: true }).fill("1");
       await capture(page, "key-rotate");
       await rotate.getByRole("button", { name: "Rotate key" }).click();
       const replacement = page.getByRole("dialog", { name: "The replacement key" });

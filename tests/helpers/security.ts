@@ -33,7 +33,7 @@ function base62(n: number, width: number): string {
 }
 
 /**
- * A key in the documented format (prt_<mode>_<32 base62><6 base62 digits of CRC-32 of the 32>),
+ * A key in the earlier documented format, still accepted (prt_<mode>_<32 base62><6 base62 digits of CRC-32 of the 32>),
  * built here from that description rather than by the key module, and never stored.
  */
 export function forgeWellFormedKey(mode: "live" | "test" = "test"): string {
@@ -71,10 +71,10 @@ export function authMatrix(call: RouteCall): void {
 
     it("accepts live and test keys, and the auth scheme name in any case (RFC 9110 §11.1)", async () => {
       const live = await makeOrgWithKey({ mode: "live", scopes: [call.scope] });
-      expect(live.key.startsWith("prt_live_")).toBe(true);
+      expect(live.key.startsWith("live.prt1.")).toBe(true);
       expect((await send(call, live.auth)).status).toBe(200);
       const test = await makeOrgWithKey({ mode: "test", scopes: [call.scope] });
-      expect(test.key.startsWith("prt_test_")).toBe(true);
+      expect(test.key.startsWith("test.prt1.")).toBe(true);
       expect((await send(call, `bearer ${test.key}`)).status).toBe(200);
     });
 

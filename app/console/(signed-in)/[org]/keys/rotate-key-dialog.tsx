@@ -1,41 +1,69 @@
 "use client";
 
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { useId, useState } from "react";
+import { useEffect, useId, useState } from "react";
 import { Dialog, DialogActions } from "@/components/console/dialog";
 import { ProblemView } from "@/components/console/problem-view";
-import { buttonPrimary, buttonSecondary, errorText, hintBase, inputBase } from "@/components/console/ui";
+import { buttonPrimary, buttonSecondary, errorText, hintBase, inputBase, labelBase, selectBase } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
+import { MAX_OVERLAP_MINUTES, oldKeyEndsAt } from "@/lib/console/overlap";
 import { toProblem } from "@/lib/console-client/problem";
 import { queryKeys } from "@/lib/console-client/query-keys";
 import type { KeyRecord, RotatedKey } from "@/lib/console-client/types";
 import { RevealKey } from "./reveal-key";
 
-const MAX_OVERLAP = 720;
-const CHOICES = [
-  { id: "0", hours: 0, label: "No overlap", help: "The old key stops at once." },
-  { id: "1", hours: 1, label: "1 hour", help: "Enough for a single deploy." },
-  { id: "24", hours: 24, label: "24 hours", help: "A day to update every job." },
-  { id: "168", hours: 168, label: "7 days", help: "For keys spread over many systems." },
-  { id: "custom", hours: null, label: "Custom", help: `0 to ${MAX_OVERLAP} hours.` },
+const UNITS = [
+  { id: "minutes", minutes: 1, singular: "minute" },
+  { id: "hours", minutes: 60, singular: "hour" },
+  { id: "days", minutes: 24 * 60, singular: "day" },
 ] as const;
+type Unit = (typeof UNITS)[number]["id"];
+const DEFAULT_AMOUNT = "24";
+const DEFAULT_UNIT: Unit = "hours";
+const BOUNDS = `0 to 7 days (${MAX_OVERLAP_MINUTES} minutes, ${MAX_OVERLAP_MINUTES / 60} hours)`;
+
+/** The overlap in minutes, or null when the amount is not a whole number within the bounds. */
+function overlapMinutesOf(amount: string, unit: Unit): number | null {
+  const n = Number(amount);
+  if (amount.trim() === "" || !Number.isInteger(n) || n < 0) return null;
+  const minutes = n * UNITS.find((u) => u.id === unit)!.minutes;
+  return minutes <= MAX_OVERLAP_MINUTES ? minutes : null;
+}
+
+/** The clock the preview reads, advanced every 15 s while the dialog is open so "stops at" stays true. */
+function useNow(active: boolean): Date {
+  const [now, setNow] = useState(() => new Date());
+  useEffect(() => {
+    if (!active) return;
+    const tick = () => setNow(new Date());
+    // The dialog stays mounted while closed: read the clock again as soon as it opens.
+    const first = setTimeout(tick, 0);
+    const every = setInterval(tick, 15_000);
+    return () => {
+      clearTimeout(first);
+      clearInterval(every);
+    };
+  }, [active]);
+  return now;
+}
 
 /** Replace a key by a new one with the same name, scopes and mode; the old one keeps working for the overlap. */
 export function RotateKeyDialog({ org, target, onClose }: { org: string; target: KeyRecord | null; onClose: () => void }) {
   const qc = useQueryClient();
-  const [choice, setChoice] = useState<(typeof CHOICES)[number]["id"]>("24");
-  const [custom, setCustom] = useState("48");
+  const [amount, setAmount] = useState(DEFAULT_AMOUNT);
+  const [unit, setUnit] = useState<Unit>(DEFAULT_UNIT);
   const [result, setResult] = useState<(RotatedKey & { endsNow: boolean }) | null>(null);
-  const customId = useId();
-  const groupName = useId();
+  const amountId = useId();
+  const unitId = useId();
+  const now = useNow(target !== null && !result);
 
-  const customHours = Number(custom);
-  const customValid = custom.trim() !== "" && Number.isInteger(customHours) && customHours >= 0 && customHours <= MAX_OVERLAP;
-  const hours = choice === "custom" ? (customValid ? customHours : null) : Number(choice);
+  const minutes = overlapMinutesOf(amount, unit);
+  const endsAt = minutes === null ? null : oldKeyEndsAt(now, minutes, target?.expiresAt ?? null);
+  const cutByOwnEnd = endsAt !== null && target?.expiresAt === endsAt && minutes !== 0;
 
   const rotate = useMutation({
-    mutationFn: (overlapHours: number) => consoleApi.rotateKey(org, target!.id, overlapHours),
+    mutationFn: (overlapMinutes: number) => consoleApi.rotateKey(org, target!.id, overlapMinutes),
     onSuccess: (res) => {
       setResult({ ...res, endsNow: Date.parse(res.previous.expiresAt) <= Date.now() + 1000 });
       void qc.invalidateQueries({ queryKey: queryKeys.keys(org) });
@@ -44,8 +72,8 @@ export function RotateKeyDialog({ org, target, onClose }: { org: string; target:
 
   function close() {
     setResult(null);
-    setChoice("24");
-    setCustom("48");
+    setAmount(DEFAULT_AMOUNT);
+    setUnit(DEFAULT_UNIT);
     rotate.reset();
     onClose();
   }
@@ -86,57 +114,54 @@ export function RotateKeyDialog({ org, target, onClose }: { org: string; target:
           noValidate
           onSubmit={(e) => {
             e.preventDefault();
-            if (hours !== null) rotate.mutate(hours);
+            if (minutes !== null) rotate.mutate(minutes);
           }}
         >
-          <fieldset>
-            <legend className="text-sm font-medium">Overlap</legend>
-            <div className="mt-2 grid gap-2 sm:grid-cols-2">
-              {CHOICES.map((c) => (
-                <label key={c.id} className="flex items-start gap-2 rounded-md border border-ink-2/40 p-3 text-sm has-[:checked]:border-accent has-[:checked]:bg-accent-soft/50">
-                  <input
-                    type="radio"
-                    name={groupName}
-                    value={c.id}
-                    checked={choice === c.id}
-                    onChange={() => setChoice(c.id)}
-                    className="mt-1 h-4 w-4 accent-accent"
-                    data-autofocus={choice === c.id ? true : undefined}
-                  />
-                  <span>
-                    <span className="font-medium">{c.label}</span>
-                    <span className="block text-ink-2">{c.help}</span>
-                  </span>
-                </label>
-              ))}
-            </div>
-          </fieldset>
-          {choice === "custom" ? (
-            <div className="mt-3">
-              <label htmlFor={customId} className="text-sm font-medium">
-                Overlap in hours
+          <div className="flex flex-wrap items-end gap-2">
+            <div>
+              <label htmlFor={amountId} className={labelBase}>
+                Overlap
               </label>
               <input
-                id={customId}
+                id={amountId}
                 type="number"
                 min={0}
-                max={MAX_OVERLAP}
                 step={1}
                 inputMode="numeric"
-                value={custom}
-                onChange={(e) => setCustom(e.target.value)}
-                className={`${inputBase} mt-1 max-w-[10rem]`}
-                aria-invalid={customValid ? undefined : true}
-                aria-describedby={`${customId}-hint`}
+                value={amount}
+                onChange={(e) => setAmount(e.target.value)}
+                className={`${inputBase} mt-1 w-28`}
+                aria-invalid={minutes === null ? true : undefined}
+                aria-describedby={`${amountId}-hint ${amountId}-preview`}
+                data-autofocus
               />
-              <p id={`${customId}-hint`} className={customValid ? hintBase : errorText}>
-                {customValid ? `Whole hours, 0 to ${MAX_OVERLAP} (30 days).` : `Enter whole hours from 0 to ${MAX_OVERLAP}.`}
-              </p>
             </div>
-          ) : null}
-          {target?.expiresAt ? (
-            <p className={`${hintBase} mt-3`}>This key already ends {formatDateTime(target.expiresAt)}; the overlap never extends it.</p>
-          ) : null}
+            <div>
+              <label htmlFor={unitId} className={labelBase}>
+                Unit
+              </label>
+              <select id={unitId} value={unit} onChange={(e) => setUnit(e.target.value as Unit)} className={`${selectBase} mt-1`}>
+                {UNITS.map((u) => (
+                  <option key={u.id} value={u.id}>
+                    {u.id}
+                  </option>
+                ))}
+              </select>
+            </div>
+          </div>
+          <p id={`${amountId}-hint`} className={minutes === null ? errorText : hintBase}>
+            {minutes === null ? `Enter a whole number of ${unit}, ${BOUNDS}.` : `How long the old key keeps working: ${BOUNDS}; 0 stops it at once.`}
+          </p>
+          <p id={`${amountId}-preview`} className="mt-3 text-sm text-ink-2" aria-live="polite">
+            {endsAt === null ? null : minutes === 0 ? (
+              <>The old key stops working as soon as you rotate.</>
+            ) : (
+              <>
+                The old key stops working at <strong className="font-medium text-ink">{formatDateTime(endsAt)}</strong> ({formatRelative(endsAt, now.getTime())})
+                {cutByOwnEnd ? ", its own end: the overlap never extends a key" : ""}.
+              </>
+            )}
+          </p>
           {rotate.isError ? (
             <div className="mt-4">
               <ProblemView problem={toProblem(rotate.error)} compact />
@@ -146,7 +171,7 @@ export function RotateKeyDialog({ org, target, onClose }: { org: string; target:
             <button type="button" className={buttonSecondary} onClick={close}>
               Cancel
             </button>
-            <button type="submit" className={buttonPrimary} disabled={hours === null || rotate.isPending}>
+            <button type="submit" className={buttonPrimary} disabled={minutes === null || rotate.isPending}>
               {rotate.isPending ? "Rotating…" : "Rotate key"}
             </button>
           </DialogActions>

@@ -66,7 +66,7 @@ export async function runEndpoint(org: string, e: EndpointInfo, input: Record<st
     headers: [...out.response.headers.entries()],
     body: out.body,
     ms: out.ms,
-    key: { prefix: tk.key.slice(0, "prt_test_".length + 4), expiresAt: tk.expiresAt },
+    key: { prefix: tk.key.slice(0, "test.prt1.".length + 4), expiresAt: tk.expiresAt },
     at: new Date().toISOString(),
   };
 }

@@ -6,8 +6,8 @@ const rotate = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner", "developer"], async (req, ctx) => {
-        const { overlapHours } = await readJson(req, rotateInput);
-        return json(await rotateOrgKey(ctx.db, ctx.org, ctx.caller, idParam(ctx, "id"), overlapHours), 201);
+        const overlapMinutes = await readJson(req, rotateInput);
+        return json(await rotateOrgKey(ctx.db, ctx.org, ctx.caller, idParam(ctx, "id"), overlapMinutes), 201);
       }),
     ),
   ),
