@@ -7,6 +7,35 @@ import { RATE_WINDOW_SECONDS } from "@/lib/api/rate-limit";
 import { endpoints } from "@/lib/api/registry";
 import { caution } from "@/lib/api/schemas";
 import { scopeCatalogue } from "@/lib/api/scopes";
+import stored from "./response-examples.json";
+import type { ResponseExamples } from "./response-examples";
+
+/** Bodies of the math endpoints' 200 responses to their request examples (`npm run gen:response-examples`). */
+const responseExamples: ResponseExamples = stored;
+
+/**
+ * GET /usage reads the caller's own metering rows, so no fixed body is the real answer to its examples:
+ * this one is made up to show the shape, and says so.
+ */
+export const illustrativeUsage = {
+  org: "acme-radio",
+  from: "2026-11-01",
+  to: "2026-11-07",
+  data: [
+    { day: "2026-11-01", endpoint: "codes.analyze", calls: 12, units: 12, errors: 0 },
+    { day: "2026-11-01", endpoint: "decode", calls: 40, units: 55, errors: 2 },
+    { day: "2026-11-02", endpoint: "capacity", calls: 3, units: 3, errors: 0 },
+  ],
+  nextCursor: null,
+};
+
+/** The 200 examples of one endpoint, under the names of its request examples. */
+function okExamples(e: (typeof endpoints)[number]) {
+  if (e.kind === "data") {
+    return e.id === "usage" ? { illustrative: { summary: "Illustrative only: made-up rows; a call returns your organisation's own", value: illustrativeUsage } } : undefined;
+  }
+  return Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: responseExamples[e.id]?.[name] }]));
+}
 
 const rateHeaders = {
   RateLimit: { description: "Requests left in the current window and seconds until it resets (IETF RateLimit header fields).", schema: { type: "string" as const, example: '"per-key";r=599;t=42' } },
@@ -30,8 +59,12 @@ function problem(...codes: ProblemCode[]) {
   };
 }
 
-/** The OpenAPI 3.1 document, built from the endpoint definitions. */
-export function buildOpenApiDocument() {
+/**
+ * The OpenAPI 3.1 document, built from the endpoint definitions. `explicitTypes: false` leaves out the
+ * `type`s added for the reference renderer (see addTypes): the typed client's generator reads them as
+ * loose types (`unknown[]`, `Record<string, never>`), and they constrain nothing the schemas don't already.
+ */
+export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?: boolean } = {}) {
   const registry = new OpenAPIRegistry();
   const bearer = registry.registerComponent("securitySchemes", "apiKey", {
     type: "http",
@@ -73,7 +106,7 @@ export function buildOpenApiDocument() {
         200: {
           description: "Success.",
           headers: { ...rateHeaders, "X-Compute-Units": { description: "Compute units charged for this call.", schema: { type: "integer" } } },
-          content: { "application/json": { schema: e.output } },
+          content: { "application/json": { schema: e.output, examples: okExamples(e) } },
         },
         ...(isGet ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
         401: problem("unauthenticated"),
@@ -96,7 +129,54 @@ export function buildOpenApiDocument() {
 
   const document = generate(registry);
   addQueryExamples(document);
+  if (explicitTypes) addTypes(document.components?.schemas ?? {});
   return document;
+}
+
+type Schema = Record<string, unknown>;
+const isSchema = (x: unknown): x is Schema => typeof x === "object" && x !== null && !Array.isArray(x);
+const jsonType = (v: unknown) => (v === null ? "null" : Array.isArray(v) ? "array" : typeof v === "number" ? (Number.isInteger(v) ? "integer" : "number") : typeof v);
+
+/**
+ * The reference renderer refuses (as "document validation errors") a schema with no `type`, such as a bare
+ * anyOf of a string and an array, or an `{ required: [...] }` branch. Give each one the type its keywords
+ * already imply, so that no instance's verdict changes: a union takes its branches' types, enum and const
+ * their values' types, and object, array, number and string keywords their own type. Schemas with none of
+ * these (the empty schema) stay as they are.
+ */
+function addTypes(components: Record<string, unknown>): void {
+  const done = new Set<Schema>();
+  const typesOf = (s: Schema): string[] => {
+    visit(s);
+    if (typeof s.$ref === "string") {
+      const target = components[s.$ref.replace("#/components/schemas/", "")];
+      return isSchema(target) ? typesOf(target) : [];
+    }
+    return s.type === undefined ? [] : ([] as string[]).concat(s.type as string | string[]);
+  };
+  const visit = (s: Schema): void => {
+    if (done.has(s)) return;
+    done.add(s);
+    for (const k of ["anyOf", "oneOf", "allOf", "prefixItems"]) for (const x of (s[k] as unknown[] | undefined) ?? []) if (isSchema(x)) visit(x);
+    for (const k of ["items", "not", "if", "then", "else", "additionalProperties"]) if (isSchema(s[k])) visit(s[k]);
+    for (const x of Object.values((s.properties as Schema | undefined) ?? {})) if (isSchema(x)) visit(x);
+    if (s.type !== undefined || s.$ref !== undefined) return;
+    const branches = ((s.anyOf ?? s.oneOf) as unknown[] | undefined)?.filter(isSchema);
+    let types: string[] = [];
+    if (branches) {
+      const each = branches.map(typesOf);
+      if (each.every((t) => t.length)) types = each.flat();
+    } else if (Array.isArray(s.enum)) types = s.enum.map(jsonType);
+    else if ("const" in s) types = [jsonType(s.const)];
+    else if (["properties", "required", "additionalProperties", "if", "dependentRequired"].some((k) => k in s)) types = ["object"];
+    else if (["items", "prefixItems", "minItems", "maxItems"].some((k) => k in s)) types = ["array"];
+    else if (["minimum", "maximum", "exclusiveMinimum", "exclusiveMaximum", "multipleOf"].some((k) => k in s)) types = ["number"];
+    else if (["pattern", "minLength", "maxLength"].some((k) => k in s)) types = ["string"];
+    // An integer next to a number is already a number.
+    const unique = [...new Set(types)].filter((t, _, all) => !(t === "integer" && all.includes("number")));
+    if (unique.length) s.type = unique.length === 1 ? unique[0] : unique;
+  };
+  for (const s of Object.values(components)) if (isSchema(s)) visit(s);
 }
 
 /** zod-to-openapi puts no examples on query parameters: copy each GET example's values onto its parameters. */

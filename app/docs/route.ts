@@ -119,6 +119,14 @@ ${fontFaces
 }
 
 :focus-visible { outline: 3px solid #2a48c9; outline-offset: 2px; }
+
+/* The renderer's own credit line, version badge and placeholder ASCII art (in the try-it panel before a
+   request is sent): the reader should see Paritas only. The renderer is MIT-licensed; its licence text
+   stays in node_modules and asks for no visible credit. */
+a[href^="https://www.scalar.com"],
+a[href^="https://github.com/scalar"],
+.scalar-version-number,
+.ascii-art { display: none !important; }
 .dark-mode :focus-visible { outline-color: #8fa6ff; }
 `;
 

@@ -77,6 +77,24 @@ describe("the served document", () => {
     expect(checked).toBeGreaterThan(25);
   });
 
+  // The reference page's renderer (@scalar/api-reference 1.46) reported "document validation errors" for
+  // every component holding a schema without `type` (CodeSpec, Word, MatrixRow, HammingCode's
+  // `{ required: [...] }` branches, BchCode's if/then): it accepts a schema only with a `type` or a $ref.
+  it("every component schema and subschema that constrains anything names its type (the renderer refuses one without)", () => {
+    const untyped: string[] = [];
+    const walk = (s: unknown, where: string): void => {
+      if (typeof s !== "object" || s === null) return;
+      const o = s as Record<string, unknown>;
+      if (!("$ref" in o) && !("type" in o) && Object.keys(o).some((k) => k !== "description")) untyped.push(where);
+      for (const k of ["anyOf", "oneOf", "allOf", "prefixItems"]) ((o[k] as unknown[] | undefined) ?? []).forEach((x, i) => walk(x, `${where}/${k}/${i}`));
+      for (const k of ["items", "not", "if", "then", "else", "additionalProperties"]) walk(o[k], `${where}/${k}`);
+      for (const [k, x] of Object.entries((o.properties as Record<string, unknown> | undefined) ?? {})) walk(x, `${where}/properties/${k}`);
+    };
+    for (const [id, schema] of Object.entries(doc.components.schemas)) walk(schema, id);
+    expect(untyped).toEqual([]);
+    for (const id of ["CodeSpec", "Word", "MatrixRow", "CodebookWord"]) expect(doc.components.schemas[id]!.type, id).toBeDefined();
+  });
+
   it("states the Idempotency-Key header of every POST: 1 to 255 visible ASCII characters", () => {
     for (const o of operationsOf(doc).filter((x) => x.method === "post")) {
       const i = o.parameters!.findIndex((p) => p.name === "Idempotency-Key" && p.in === "header");
