@@ -73,7 +73,7 @@ export function CreateKeyDialog({ org, open, onClose }: { org: string; open: boo
   const errors = formState.errors;
 
   return (
-    <Dialog open={open} onClose={close} title={issued ? "Your new key" : "Create a key"} dismissible={!issued} description={issued ? undefined : "A key calls the public API for this organisation. Test keys are for trying things out; live keys are for production."}>
+    <Dialog open={open} onClose={close} title={issued ? "Your new key" : "Create a key"} dismissible={!issued} description={issued ? undefined : "A key lets a script or a job call the public API for this organisation. Its first word names its mode, so a stray key tells you at once whether it reaches production."}>
       {issued ? (
         <RevealKey secret={issued.key} onDone={close}>
           <p className="text-sm text-ink-2">
@@ -139,6 +139,9 @@ export function CreateKeyDialog({ org, open, onClose }: { org: string; open: boo
                   <span>
                     <span className="font-medium">{label}</span>
                     <span className="block text-ink-2">{help}</span>
+                    <span className="block text-ink-2">
+                      Its key starts <code className="font-mono">{value}.prt1.</code>
+                    </span>
                   </span>
                 </label>
               ))}
