@@ -125,7 +125,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       const field = shown.getByLabel("The new key");
       await field.waitFor();
       const key = await field.inputValue();
-      expect(key).toMatch(/^prt_test_[0-9A-Za-z]{38}$/);
+      expect(key).toMatch(/^test\.prt1\.[0-9A-Za-z]{36}$/);
       await shown.getByRole("button", { name: "Copy key" }).click();
       await shown.getByRole("button", { name: "Copied" }).waitFor();
       expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(key);
@@ -169,13 +169,13 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       const [header, ...lines] = csv.trim().split(/\r?\n/);
       expect(header).toBe(CSV_HEADER);
       const today = new Date().toISOString().slice(0, 10);
-      expect(lines.filter((l) => l.startsWith(`${today},capacity,${key.slice(0, 13)},`))).toEqual([`${today},capacity,${key.slice(0, 13)},1,1,0`]);
+      expect(lines.filter((l) => l.startsWith(`${today},capacity,${key.slice(0, 14)},`))).toEqual([`${today},capacity,${key.slice(0, 14)},1,1,0`]);
       await page.getByRole("heading", { name: "By endpoint" }).scrollIntoViewIfNeeded();
       await capture(page, "usage-tables");
 
       // Rotate with a one-hour overlap: old and new keys both work inside the window.
       await sectionLink(s, "Keys").click();
-      const prefix = key.slice(0, 13);
+      const prefix = key.slice(0, 14);
       await page.getByRole("button", { name: `Rotate e2e capacity probe (${prefix})` }).first().click();
       const rotate = page.getByRole("dialog", { name: "Rotate e2e capacity probe" });
       await rotate.getByLabel("Overlap", { exact: true }).fill("1");
@@ -183,7 +183,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       await rotate.getByRole("button", { name: "Rotate key" }).click();
       const replacement = page.getByRole("dialog", { name: "The replacement key" });
       const newKey = await replacement.getByLabel("The new key").inputValue();
-      expect(newKey).toMatch(/^prt_test_/);
+      expect(newKey).toMatch(/^test\.prt1\./);
       expect(newKey).not.toBe(key);
       await replacement.getByText(/keeps working until/).waitFor();
       await replacement.getByLabel("I have stored the key somewhere safe.").check();
@@ -194,7 +194,7 @@ describe("console in a browser", { timeout: 90_000 }, () => {
       expect((await callCapacity(newKey)).status).toBe(200);
 
       // The list shows the old key in its overlap and the new one as its replacement.
-      const newPrefix = newKey.slice(0, 13);
+      const newPrefix = newKey.slice(0, 14);
       await page.getByText(`replaces ${prefix}…`).first().waitFor();
       await settle(page);
       await capture(page, "keys-rotated");
