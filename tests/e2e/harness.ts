@@ -340,6 +340,9 @@ export async function accessibilityProblems(page: Page): Promise<string[]> {
 
 /** Screenshot the page under `name` and check it with axe-core; fails on any WCAG 2.1 A/AA problem it finds. */
 export async function capture(page: Page, name: string): Promise<void> {
+  // After a client-side navigation the new page's <title> arrives a moment after its content; a page without
+  // one still fails the check below once this wait runs out.
+  await page.waitForFunction(() => document.title.trim() !== "", null, { timeout: 5000 }).catch(() => undefined);
   await screenshot(page, name);
   const problems = await accessibilityProblems(page);
   if (problems.length) throw new Error(`accessibility problems on ${name} (${page.url()}):\n  ${problems.join("\n  ")}`);
