@@ -74,11 +74,16 @@ export function shannonHartley(bandwidthHz: number, snr: number): number {
   return (bandwidthHz * log1p(snr)) / Math.LN2;
 }
 
-/** Minimum linear Eb/N0 on the real AWGN channel at R bits per real dimension, (2^{2R} − 1)/(2R), ln 2 at R = 0 (Shannon 1948). */
+/**
+ * Minimum linear Eb/N0 on the real AWGN channel at R bits per real dimension, (2^{2R} − 1)/(2R), ln 2 at R = 0
+ * (Shannon 1948). Per complex symbol (2 real dimensions) the same limit reads (2^R − 1)/R. Written as
+ * ln 2 · expm1(x)/x with x = 2R·ln 2, so that a subnormal R (where 2R loses its digits) still gives ln 2.
+ */
 export function shannonLimitEbN0(rate: number): number {
   checkNonNegative(rate, "rate");
-  if (rate === 0) return Math.LN2;
-  return expm1(2 * rate * Math.LN2) / (2 * rate);
+  const x = 2 * rate * Math.LN2;
+  if (x === 0) return Math.LN2;
+  return (expm1(x) / x) * Math.LN2;
 }
 
 function softplus(x: number): number {

@@ -101,6 +101,10 @@ describe("AWGN capacity and the real-AWGN Shannon limit (Shannon 1948)", () => {
     expect(Math.abs(shannonLimitEbN0(1e-12) - Math.LN2)).toBeLessThan(1e-11);
     // (2^{2R} − 1)/(2R) at R = 1: 3/2.
     expect(shannonLimitEbN0(1)).toBe(1.5);
+    // Subnormal R, where 2R keeps too few digits for the quotient: the limit is still ln 2.
+    expect(shannonLimitEbN0(5e-324)).toBe(Math.LN2);
+    // Per complex symbol Rc (2 real dimensions) the limit is (2^Rc − 1)/Rc, evaluated directly.
+    for (const rc of [0.5, 1, 2, 3, 6]) expect(Math.abs(shannonLimitEbN0(rc / 2) / ((2 ** rc - 1) / rc) - 1)).toBeLessThan(1e-14);
   });
 
   it("gap to limit in dB", () => {
