@@ -127,7 +127,9 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
     responses: { 200: { description: "The document.", content: { "application/json": { schema: z.object({}).passthrough() } } } },
   });
 
-  const document = generate(registry);
+  // A copy: the generator hands out keyword objects registered once per process (documentRules), and
+  // addQueryExamples and addTypes change what they are given; another document must not see it.
+  const document = structuredClone(generate(registry));
   addQueryExamples(document);
   if (explicitTypes) addTypes(document.components?.schemas ?? {});
   return document;
