@@ -30,7 +30,10 @@ describe("POST /capacity: bad input", () => {
     ["AWGN snr over 1e10", { channel: "awgn", snr: 2e10 }, "/snr"],
     ["AWGN bandwidth 0", { channel: "awgn", snrDb: 3, bandwidthHz: 0 }, "/bandwidthHz"],
     ["AWGN bandwidth over 1e15", { channel: "awgn", snrDb: 3, bandwidthHz: 1e16 }, "/bandwidthHz"],
-    ["AWGN rate 0", { channel: "awgn", snrDb: 3, rate: 0 }, "/rate"],
+    ["AWGN rate negative", { channel: "awgn", snrDb: 3, rate: -0.5 }, "/rate"],
+    ["AWGN an unknown rate unit", { channel: "awgn", rate: 0.5, rateUnit: "bits per symbol" }, "/rateUnit"],
+    ["BSC a rate per real dimension", { channel: "bsc", p: 0.1, rate: 0.5, rateUnit: "bits per real dimension" }, "/rateUnit"],
+    ["BPSK rate 0 (its limit needs a rate above 0)", { channel: "bpsk-awgn", rate: 0 }, "/rate"],
     ["AWGN rate over 16", { channel: "awgn", snrDb: 3, rate: 17 }, "/rate"],
     ["AWGN ebN0Db without rate", { channel: "awgn", ebN0Db: 3 }, "/rate"],
     ["BPSK rate 1 (must be below 1)", { channel: "bpsk-awgn", ebN0Db: 3, rate: 1 }, "/rate"],
@@ -41,8 +44,8 @@ describe("POST /capacity: bad input", () => {
     expectFieldError(await call(body), pointer);
   });
 
-  it("AWGN with none of snrDb, snr, ebN0Db → 422 naming all three", async () => {
-    expectFieldError(await call({ channel: "awgn" }), "", /`snrDb`.*`snr`.*`ebN0Db`/);
+  it("AWGN with none of snrDb, snr, ebN0Db and no rate → 422 naming all three and the rate", async () => {
+    expectFieldError(await call({ channel: "awgn" }), "", /`snrDb`.*`snr`.*`ebN0Db`.*`rate`/);
   });
 
   it("AWGN with two ways of giving the S/N → 422 at the second one", async () => {

@@ -202,3 +202,72 @@ describe("POST /capacity: BPSK-input AWGN", () => {
     expect([units(256), units(2 ** 23), units(2 ** 23 + 2 ** 24)]).toEqual(["1", "2", "6"]);
   });
 });
+
+describe("POST /capacity: a Shannon limit alone, and the rate's unit", () => {
+  // Reference values: the limit (2^(2R) − 1)/(2R) for R per real dimension is 0 dB at R = ½ and tends to ln 2 = −1.59 dB
+  // as R → 0 (REFERENCES, Shannon 1948); per complex symbol (2 real dimensions) it reads (2^R − 1)/R, evaluated here by hand.
+  it("AWGN rate ½ with no operating point: the limit 0 dB, no capacity, no gap, unit per real dimension", async () => {
+    const { body } = await call({ channel: "awgn", rate: 0.5 });
+    expect(Math.abs(body.shannonLimit.ebN0Db)).toBeLessThan(1e-12);
+    expect(body.rateUnit).toBe("bits per real dimension");
+    expect(body.rate).toBe(0.5);
+    for (const f of ["capacity", "snr", "rateMargin", "operatingEbN0Db", "gapDb"]) expect(body[f], f).toBeUndefined();
+  });
+
+  it("rate 0 asks for the R → 0 limit: ln 2 = −1.59 dB (REFERENCES, Shannon 1948)", async () => {
+    const { body } = await call({ channel: "awgn", rate: 0 });
+    expect(body.shannonLimit.ebN0).toBe(Math.LN2);
+    expect(body.shannonLimit.ebN0Db).toBeCloseTo(-1.59, 2);
+    expect(body.shannonLimit.formula).toMatch(/R → 0/);
+  });
+
+  it("rate 1 bit per complex symbol (QPSK at rate ½) has the same 0 dB limit as rate ½ per real dimension", async () => {
+    const complex = (await call({ channel: "awgn", rate: 1, rateUnit: "bits per complex symbol" })).body;
+    expect(complex.rateUnit).toBe("bits per complex symbol");
+    expect(complex.rate).toBe(1);
+    expect(Math.abs(complex.shannonLimit.ebN0Db)).toBeLessThan(1e-12);
+  });
+
+  it("per complex symbol the limit is (2^R − 1)/R: R = 2 gives 3/2 (1.76 dB), R = 4 gives 15/4 (5.74 dB)", async () => {
+    for (const [r, limit] of [[2, 1.5], [4, 3.75]] as const) {
+      const { body } = await call({ channel: "awgn", rate: r, rateUnit: "bits per complex symbol" });
+      expect(relErr(body.shannonLimit.ebN0, limit)).toBeLessThan(1e-14);
+    }
+  });
+
+  it("per complex symbol, capacity and margin are twice the per-dimension values at the same S/N (S/N = 3: C = 2 bits per complex symbol)", async () => {
+    const { body } = await call({ channel: "awgn", snr: 3, rate: 1.5, rateUnit: "bits per complex symbol" });
+    // log2(1 + 3) = 2 bits per complex symbol; the margin 2 − 1.5; Eb/N0 = S/N / R = 3/1.5 = 2 (3.01 dB); the limit (2^1.5 − 1)/1.5.
+    expect(body.capacity).toEqual({ value: 2, unit: "bits per complex symbol" });
+    expect(body.rateMargin).toEqual({ value: 0.5, unit: "bits per complex symbol" });
+    expect(Math.abs(body.operatingEbN0Db - db(2))).toBeLessThan(1e-12);
+    expect(Math.abs(body.gapDb - (db(2) - db((2 ** 1.5 - 1) / 1.5)))).toBeLessThan(1e-12);
+  });
+
+  it("every response names the rate's unit: per channel use on BSC, BEC and BPSK input, per real dimension on AWGN by default", async () => {
+    expect((await call({ channel: "bsc", p: 0.11 })).body.rateUnit).toBe("bits per channel use");
+    expect((await call({ channel: "bec", erasure: 0.2, rate: 0.75, rateUnit: "bits per channel use" })).body.rateMargin).toEqual({ value: 0.8 - 0.75, unit: "bits per channel use" });
+    expect((await call({ channel: "bpsk-awgn", esN0Db: 0 })).body.rateUnit).toBe("bits per channel use");
+    const awgn = (await call({ channel: "awgn", snr: 3 })).body;
+    expect(awgn.rateUnit).toBe("bits per real dimension");
+    expect(awgn.capacity).toEqual({ value: 1, unit: "bits per real dimension" });
+  });
+
+  it("BPSK input, rate ½ with no operating point: the limit alone, about 0.187 dB (REFERENCES), matching the independent root (±1e-4 dB)", async () => {
+    const res = await call({ channel: "bpsk-awgn", rate: 0.5 });
+    expect(Math.abs(res.body.shannonLimit.ebN0Db - 0.187)).toBeLessThan(0.005);
+    expect(Math.abs(res.body.shannonLimit.ebN0Db - bpskLimitDbRef(0.5))).toBeLessThan(1e-4);
+    expect(res.body.capacity).toBeUndefined();
+    expect(res.body.gapDb).toBeUndefined();
+    // Root finding only, no integration at an operating point: 2^24 work, 4 units.
+    expect(res.headers["x-compute-units"]).toBe("4");
+  });
+
+  it("a subnormal rate works: S/N 3 dB at R = 5e-324 gives Eb/N0 = 3 − 10·log10(2R) dB and the limit ln 2", async () => {
+    const { body } = await call({ channel: "awgn", snrDb: 3, rate: 5e-324 });
+    expect(body.shannonLimit.ebN0).toBe(Math.LN2);
+    // 10·log10(1e-323) = −3230 to four digits (log10 of 9.88e-324, the double nearest 1e-323, is −323.005).
+    expect(Math.abs(body.operatingEbN0Db - (3 - 10 * Math.log10(2 * 5e-324)))).toBeLessThan(1e-9);
+    expect(body.operatingEbN0Db).toBeCloseTo(3233.05, 1);
+  });
+});

@@ -93,9 +93,18 @@ export function arbitraryFor(schema: SchemaObject | boolean, root: Json, limits:
         return fc.record(model, { requiredKeys: [...new Set(keys.flatMap((k) => [k, ...(needs[k] ?? [])]))] }) as fc.Arbitrary<Json>;
       };
       // A oneOf of `required` lists beside `properties` picks one way of writing the object: one list, none of the others.
-      const ways = Array.isArray(s.oneOf) ? (s.oneOf as SchemaObject[]).map((w) => (w.required ?? []) as string[]) : undefined;
-      if (!ways) return record(required, new Set());
-      return fc.oneof(...ways.map((way) => record([...required, ...way], new Set(ways.flat().filter((k) => !way.includes(k))))));
+      // A branch `{ not: { anyOf: [required…] }, required }` is the way that gives none of the listed keys.
+      if (!Array.isArray(s.oneOf)) return record(required, new Set());
+      const branches = s.oneOf as SchemaObject[];
+      const excluded = (w: SchemaObject) => (((w.not as SchemaObject | undefined)?.anyOf ?? []) as SchemaObject[]).flatMap((a) => (a.required ?? []) as string[]);
+      const exclusive = new Set(branches.some((w) => w.not) ? branches.flatMap(excluded) : branches.flatMap((w) => (w.required ?? []) as string[]));
+      return fc.oneof(
+        ...branches.map((w) => {
+          const way = (w.required ?? []) as string[];
+          const allowed = new Set([...way, ...way.flatMap((k) => needs[k] ?? [])]);
+          return record([...required, ...way], new Set(w.not ? excluded(w) : [...exclusive].filter((k) => !allowed.has(k))));
+        }),
+      );
     }
     default:
       return fc.jsonValue({ maxDepth: 2 }) as fc.Arbitrary<Json>;
