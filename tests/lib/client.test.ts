@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createParitasClient } from "@/lib/client";
+import { createParitasClient } from "@/packages/client/src/index";
 import { clientTypes } from "@/scripts/gen-client";
 import { createApp } from "@/tests/helpers/app";
 import { makeOrgWithKey } from "@/tests/helpers/fixtures";
@@ -16,8 +16,8 @@ beforeAll(async () => {
 afterAll(() => new Promise<void>((r) => server.close(() => r())));
 
 describe("typed client", () => {
-  it("lib/client/paritas.d.ts is up to date with the OpenAPI document (run npm run gen:client)", async () => {
-    expect(readFileSync("lib/client/paritas.d.ts", "utf8")).toBe(await clientTypes());
+  it("packages/client/src/paritas.d.ts is up to date with the OpenAPI document (run npm run gen:client)", async () => {
+    expect(readFileSync("packages/client/src/paritas.d.ts", "utf8")).toBe(await clientTypes());
   });
 
   it("calls the API with a key and returns the typed body", async () => {

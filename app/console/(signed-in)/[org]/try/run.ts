@@ -1,4 +1,4 @@
-import { createParitasClient } from "@/lib/client";
+import { createParitasClient } from "@paritas/client";
 import { forgetTryKey, obtainTryKey } from "@/lib/console-client/try-key";
 import type { EndpointInfo, TryKey } from "@/lib/console-client/types";
 
