@@ -54,6 +54,8 @@ export interface MembershipTable {
 
 export type KeyMode = "live" | "test";
 
+export type KeyPurpose = "api" | "bench";
+
 export interface ApiKeyTable {
   id: Generated<number>;
   org_id: number;
@@ -72,6 +74,8 @@ export interface ApiKeyTable {
   last_used_at: Timestamp | null;
   /** Set on a key made by rotating another: the old key keeps working until its expires_at. */
   rotated_from_key_id: ColumnType<number | null, number | null | undefined, number | null>;
+  /** "api": a key people list, rotate and revoke; "bench": a person's one credential for the console's bench, renewed in place. */
+  purpose: ColumnType<KeyPurpose, KeyPurpose | undefined, KeyPurpose>;
 }
 
 export interface UsageEventTable {

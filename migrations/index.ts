@@ -2,10 +2,12 @@ import type { Migration } from "kysely";
 import * as m0001 from "./0001_initial";
 import * as m0002 from "./0002_console";
 import * as m0003 from "./0003_idempotency_lease";
+import * as m0004 from "./0004_bench_credentials";
 
 /** Static list: Kysely's file-system provider cannot find migrations inside a Next.js build. */
 export const migrations: Record<string, Migration> = {
   "0001_initial": m0001,
   "0002_console": m0002,
   "0003_idempotency_lease": m0003,
+  "0004_bench_credentials": m0004,
 };

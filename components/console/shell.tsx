@@ -10,6 +10,7 @@ import type { Role } from "@/lib/console-client/types";
 import { RoleBadge } from "./badges";
 import { IconBench, IconExit, IconKey, IconLedger, IconMenu, IconMeter, IconPeople, IconSummary } from "./icons";
 import { selectBase } from "./ui";
+import { forgetBenchCredentials } from "@/lib/console-client/try-key";
 
 interface NavItem {
   section: Section;
@@ -98,6 +99,7 @@ function Account() {
         disabled={leaving}
         onClick={() => {
           setLeaving(true);
+          forgetBenchCredentials();
           void signOut({ callbackUrl: "/signin" });
         }}
       >

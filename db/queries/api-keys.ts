@@ -39,14 +39,41 @@ const keysWithCreator = (db: Db, orgId: number) =>
       "users.email as created_by_email",
       eb.exists(eb.selectFrom("api_keys as successor").select("successor.id").whereRef("successor.rotated_from_key_id", "=", "api_keys.id")).as("replaced"),
     ])
-    .where("api_keys.org_id", "=", orgId);
+    .where("api_keys.org_id", "=", orgId)
+    .where("api_keys.purpose", "=", "api");
 
 export type KeyWithCreator = NonNullable<Awaited<ReturnType<typeof findKeyWithCreator>>>;
 
-/** The org's keys, newest first; only those `createdBy` created when given. */
+/** The org's keys people manage (bench credentials are not among them), newest first; only those `createdBy` created when given. */
 export const listKeysWithCreator = (db: Db, orgId: number, createdBy?: number) => {
   const q = keysWithCreator(db, orgId);
   return (createdBy === undefined ? q : q.where("api_keys.created_by_user_id", "=", createdBy)).orderBy("api_keys.id", "desc").execute();
 };
 
 export const findKeyWithCreator = (db: Db, orgId: number, id: number) => keysWithCreator(db, orgId).where("api_keys.id", "=", id).executeTakeFirst();
+
+/** The bench credential `userId` holds in the org, if one was ever issued and not revoked. */
+export const findBenchCredential = (db: Db, orgId: number, userId: number) =>
+  db
+    .selectFrom("api_keys")
+    .selectAll()
+    .where("org_id", "=", orgId)
+    .where("created_by_user_id", "=", userId)
+    .where("purpose", "=", "bench")
+    .where("revoked_at", "is", null)
+    .executeTakeFirst();
+
+/** Revoke, at `at`, the bench credentials `userId` holds in the org; returns how many were working. */
+export const revokeBenchCredentials = async (db: Db, orgId: number, userId: number, at: string) =>
+  Number(
+    (
+      await db
+        .updateTable("api_keys")
+        .set({ revoked_at: at })
+        .where("org_id", "=", orgId)
+        .where("created_by_user_id", "=", userId)
+        .where("purpose", "=", "bench")
+        .where("revoked_at", "is", null)
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );

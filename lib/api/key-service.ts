@@ -2,7 +2,7 @@ import type { Db } from "@/db";
 import { inTransaction, nowIso } from "@/db";
 import { insertAudit } from "@/db/queries/audit";
 import { findApiKeyById, insertApiKey, listApiKeys, updateApiKey } from "@/db/queries/api-keys";
-import type { ApiKey, KeyMode } from "@/db/schema";
+import type { ApiKey, KeyMode, KeyPurpose } from "@/db/schema";
 import { generateKey } from "./keys";
 import type { Scope } from "./scopes";
 
@@ -13,6 +13,7 @@ export interface CreateKeyInput {
   scopes: Scope[];
   expiresAt?: string | null;
   createdByUserId?: number | null;
+  purpose?: KeyPurpose;
 }
 
 /** Generate a key and store its hash, without an audit row: the caller writes the one that fits (created, rotated). */
@@ -29,6 +30,7 @@ export async function storeNewKey(db: Db, input: CreateKeyInput & { rotatedFromK
     created_at: nowIso(),
     expires_at: input.expiresAt ?? null,
     rotated_from_key_id: input.rotatedFromKeyId ?? null,
+    purpose: input.purpose ?? "api",
   });
   return { key, record };
 }

@@ -29,7 +29,7 @@ export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/console/orgs/[org]/members": ["GET"],
   "/api/console/orgs/[org]/members/[userId]": ["PATCH", "DELETE"],
   "/api/console/orgs/[org]/transfer": ["POST"],
-  "/api/console/orgs/[org]/try-key": ["POST"],
+  "/api/console/orgs/[org]/bench-credential": ["POST"],
   "/api/console/orgs/[org]/usage": ["GET"],
   "/api/health": ["GET"],
   "/api/v1/capacity": ["POST"],

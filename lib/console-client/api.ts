@@ -48,7 +48,7 @@ export const consoleApi = {
   rotateKey: (org: string, id: number, overlapMinutes: number) =>
     consoleFetch<RotatedKey>(`${orgPath(org)}/keys/${id}/rotate`, { method: "POST", body: { overlapMinutes } }),
   revokeKey: (org: string, id: number) => consoleFetch<{ record: KeyRecord }>(`${orgPath(org)}/keys/${id}/revoke`, { method: "POST" }),
-  tryKey: (org: string) => consoleFetch<TryKey>(`${orgPath(org)}/try-key`, { method: "POST" }),
+  tryKey: (org: string) => consoleFetch<TryKey>(`${orgPath(org)}/bench-credential`, { method: "POST" }),
 
   usage: (org: string, from: string, to: string, signal?: AbortSignal) => consoleFetch<UsageReport>(`${orgPath(org)}/usage${query({ from, to })}`, { signal }),
   usageCsvHref: (org: string, from: string, to: string) => `${orgPath(org)}/usage${query({ from, to, format: "csv" })}`,

@@ -1,44 +1,52 @@
 import { consoleApi } from "./api";
 import type { TryKey } from "./types";
 
-/** A key closer than this to its expiry is not reused: a request must not start with a key that dies mid-flight. */
+/** A credential closer than this to its expiry is renewed first: a request must not start with a key that dies mid-flight. */
 const MARGIN_MS = 2 * 60_000;
-const storageKey = (org: string) => `paritas.console.try-key.${org}`;
+const PREFIX = "paritas.console.bench.";
+/**
+ * Kept in localStorage, so every tab of the same person shares the one credential (the server
+ * holds one per person and org, and a renewal ends the previous secret). The entry is named by org
+ * and holder, so another person signing in on the same browser never picks it up.
+ */
+const storageKey = (org: string, holder: number) => `${PREFIX}${org}.${holder}`;
 
-function read(org: string): TryKey | null {
+let whoAmI: Promise<number> | null = null;
+const holderId = () => (whoAmI ??= consoleApi.me().then((m) => m.user.id));
+
+function read(org: string, holder: number): TryKey | null {
   try {
-    const raw = window.sessionStorage.getItem(storageKey(org));
+    const raw = window.localStorage.getItem(storageKey(org, holder));
     if (!raw) return null;
     const v = JSON.parse(raw) as Partial<TryKey>;
-    if (typeof v.key !== "string" || typeof v.expiresAt !== "string") return null;
-    return Date.parse(v.expiresAt) - Date.now() > MARGIN_MS ? { key: v.key, expiresAt: v.expiresAt } : null;
+    if (typeof v.key !== "string" || typeof v.expiresAt !== "string" || v.holder !== holder) return null;
+    return Date.parse(v.expiresAt) - Date.now() > MARGIN_MS ? { key: v.key, expiresAt: v.expiresAt, holder } : null;
   } catch {
     return null;
   }
 }
 
-/** The org's short-lived test key for the bench, from sessionStorage while it lasts, else a fresh one (POST try-key). */
-export async function obtainTryKey(org: string, opts: { fresh?: boolean } = {}): Promise<TryKey> {
-  if (!opts.fresh) {
-    const cached = read(org);
-    if (cached) return cached;
-  }
+/**
+ * The caller's bench credential for the org: the stored one while it lasts, else a renewal
+ * (POST bench-credential). `stale` is a key the API refused: renew only if no other tab has already.
+ */
+export async function obtainTryKey(org: string, opts: { stale?: string } = {}): Promise<TryKey> {
+  const holder = await holderId();
+  const stored = read(org, holder);
+  if (stored && stored.key !== opts.stale) return stored;
   const issued = await consoleApi.tryKey(org);
   try {
-    window.sessionStorage.setItem(storageKey(org), JSON.stringify(issued));
+    window.localStorage.setItem(storageKey(org, issued.holder), JSON.stringify(issued));
   } catch {
-    // Storage full or disabled: the key still works for this run.
+    // Storage full or disabled: the credential still works for this run.
   }
   return issued;
 }
 
-export function peekTryKey(org: string): TryKey | null {
-  return typeof window === "undefined" ? null : read(org);
-}
-
-export function forgetTryKey(org: string): void {
+/** Forget every stored bench credential in this browser (on sign-out). */
+export function forgetBenchCredentials(): void {
   try {
-    window.sessionStorage.removeItem(storageKey(org));
+    for (const k of Object.keys(window.localStorage)) if (k.startsWith(PREFIX)) window.localStorage.removeItem(k);
   } catch {
     // nothing stored
   }

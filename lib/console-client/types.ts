@@ -10,7 +10,7 @@ import { allScopes, scopeCatalogue } from "@/lib/api/scopes";
 import type { describeMe } from "@/lib/console/account";
 import type { listAuditEntries } from "@/lib/console/audit";
 import type { acceptInvitation } from "@/lib/console/invitations";
-import type { createOrgKey, createTryKey, rotateOrgKey } from "@/lib/console/keys";
+import type { createOrgKey, issueBenchCredential, rotateOrgKey } from "@/lib/console/keys";
 import type { listMembersOf, removeMember } from "@/lib/console/members";
 import type { summarise } from "@/lib/console/usage";
 
@@ -34,7 +34,7 @@ export type { NewKeyInput } from "@/lib/console/keys";
 /** The plaintext key is in `key`: shown once, never stored by the console. */
 export type IssuedKey = Awaited<ReturnType<typeof createOrgKey>>;
 export type RotatedKey = Awaited<ReturnType<typeof rotateOrgKey>>;
-export type TryKey = Awaited<ReturnType<typeof createTryKey>>;
+export type TryKey = Awaited<ReturnType<typeof issueBenchCredential>>;
 
 export type UsageReport = ReturnType<typeof summarise>;
 export type UsageSums = UsageReport["totals"];

@@ -135,6 +135,13 @@ export const SENTENCES: Record<string, Describe> = {
       ...(!ends ? ["."] : ends <= e.at ? ["; the old key stopped at once."] : [`; the old key ${oldKeyTense(c.keys.get(Number(e.targetId)), ends, c.now)} until `, { at: ends }, "."]),
     ];
   },
+  "bench.credential_issued": (_c, e, who) => {
+    const scopes = Array.isArray(e.details.scopes) ? e.details.scopes.filter((x): x is string => typeof x === "string") : [];
+    return [
+      who,
+      ` received a bench credential: a test key${scopes.length ? ` for ${list(scopes)}` : ""} that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.`,
+    ];
+  },
   "key.revoked": (c, e, who) => [who, " revoked the key ", ...key(c, Number(e.targetId), e.details), "; it stopped working at once."],
   "member.invited": (_c, e, who) => {
     const replaced = Array.isArray(e.details.replaced) && e.details.replaced.length > 0;

@@ -1,19 +1,19 @@
 import { z } from "zod";
-import { inTransaction, type Db } from "@/db";
-import { findKeyWithCreator, listKeysWithCreator, updateApiKey, type KeyWithCreator } from "@/db/queries/api-keys";
+import { inTransaction, nowIso, type Db } from "@/db";
+import { findBenchCredential, findKeyWithCreator, listKeysWithCreator, revokeBenchCredentials, updateApiKey, type KeyWithCreator } from "@/db/queries/api-keys";
 import { insertAudit } from "@/db/queries/audit";
 import { listOwnerEmails } from "@/db/queries/members";
 import type { KeyMode, Org } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { createKey, keyState, revokeKey, storeNewKey, type KeyState } from "@/lib/api/key-service";
+import { generateKey } from "@/lib/api/keys";
 import { allScopes, type Scope } from "@/lib/api/scopes";
 import { HOUR_MS, actorOf, type Caller } from "./common";
 import type { Mail } from "@/lib/mail/send";
 import { deliver, keyNotices, type KeyEvent } from "./notices";
 import { MAX_OVERLAP_MINUTES, oldKeyEndsAt } from "./overlap";
 
-const TRY_SCOPES: Scope[] = ["compute", "usage:read"];
-export const TRY_KEY = { name: "console try key", scopes: TRY_SCOPES, ttlMs: HOUR_MS };
+export const BENCH_CREDENTIAL = { name: "bench credential", scopes: ["compute", "usage:read"] as Scope[], ttlMs: HOUR_MS };
 
 const scopeSchema = z.enum(allScopes);
 
@@ -190,9 +190,41 @@ export async function revokeKeysCreatedBy(tx: Db, org: Org, caller: Caller, user
   };
 }
 
-/** A short-lived test key for the console's try page; it is in the audit log, but owners get no mail for it. */
-export async function createTryKey(db: Db, org: Org, caller: Caller): Promise<{ key: string; expiresAt: string }> {
-  const expiresAt = new Date(Date.now() + TRY_KEY.ttlMs).toISOString();
-  const { key } = await createKey(db, { orgId: org.id, name: TRY_KEY.name, mode: "test", scopes: TRY_KEY.scopes, expiresAt, createdByUserId: caller.id }, actorOf(caller));
-  return { key, expiresAt };
+/**
+ * The caller's bench credential: one per person and org, a test key for compute and usage:read
+ * that lasts an hour from its latest renewal. Only a hash is stored, so a renewal gives the same
+ * row a new secret (any earlier one stops); the first issue is audited, renewals are not. Owners
+ * get no mail for it, and it is kept out of the keys list: it is not a key anyone manages.
+ */
+export async function issueBenchCredential(db: Db, org: Org, caller: Caller): Promise<{ key: string; expiresAt: string; holder: number }> {
+  const expiresAt = new Date(Date.now() + BENCH_CREDENTIAL.ttlMs).toISOString();
+  return inTransaction(db, async (tx) => {
+    const held = await findBenchCredential(tx, org.id, caller.id);
+    if (held) {
+      const { key, prefix, hash } = generateKey("test");
+      await updateApiKey(tx, org.id, held.id, { key_hash: hash, prefix, expires_at: expiresAt });
+      return { key, expiresAt, holder: caller.id };
+    }
+    const { key, record } = await storeNewKey(tx, {
+      orgId: org.id,
+      name: BENCH_CREDENTIAL.name,
+      mode: "test",
+      scopes: BENCH_CREDENTIAL.scopes,
+      expiresAt,
+      createdByUserId: caller.id,
+      purpose: "bench",
+    });
+    await insertAudit(tx, {
+      orgId: org.id,
+      actor: actorOf(caller),
+      action: "bench.credential_issued",
+      targetType: "user",
+      targetId: caller.id,
+      details: { email: caller.email, keyId: record.id, scopes: BENCH_CREDENTIAL.scopes, hours: BENCH_CREDENTIAL.ttlMs / HOUR_MS },
+    });
+    return { key, expiresAt, holder: caller.id };
+  });
 }
+
+/** Inside the caller's transaction: the member's bench credential stops (they left, or their role no longer has the bench). */
+export const endBenchCredential = (tx: Db, org: Org, userId: number) => revokeBenchCredentials(tx, org.id, userId, nowIso());

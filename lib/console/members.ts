@@ -6,7 +6,7 @@ import { countOwners, deleteMember, findMember, listMembers, setMemberRole, type
 import type { Org, Role } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { actorOf, invalidField, type Caller } from "./common";
-import { revokeKeysCreatedBy } from "./keys";
+import { endBenchCredential, revokeKeysCreatedBy } from "./keys";
 import { deliver } from "./notices";
 
 export const roleSchema = z.enum(["owner", "developer", "billing"]);
@@ -60,6 +60,7 @@ export async function changeRole(db: Db, org: Org, caller: Caller, userId: numbe
     if (target.role === role) return memberView(target);
     if (target.role === "owner") await keepAnOwner(tx, org, "Demoting the last owner");
     await setMemberRole(tx, org.id, userId, role);
+    if (role === "billing") await endBenchCredential(tx, org, userId);
     await insertAudit(tx, { orgId: org.id, actor: actorOf(caller), action: "member.role_changed", targetType: "user", targetId: userId, details: { email: target.email, from: target.role, to: role } });
     return memberView({ ...target, role });
   });
@@ -76,6 +77,7 @@ export async function removeMember(db: Db, org: Org, caller: Caller, userId: num
     const target = await requireMember(tx, org, userId);
     if (target.role === "owner") await keepAnOwner(tx, org, leaving ? "Leaving as the last owner" : "Removing the last owner");
     await deleteMember(tx, org.id, userId);
+    await endBenchCredential(tx, org, userId);
     await insertAudit(tx, {
       orgId: org.id,
       actor: actorOf(caller),

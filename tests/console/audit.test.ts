@@ -48,6 +48,9 @@ beforeAll(async () => {
   successorPrefix = rotated.record.prefix;
   overlapEnds = rotated.previous.expiresAt;
   await ok(await consoleCall("POST", `${org}/keys/${newKeyId}/revoke`, { cookie: fx.owner.cookie }), "key.revoked");
+  // Renewed twice, recorded once.
+  await ok(await consoleCall("POST", `${org}/bench-credential`, { cookie: fx.developer.cookie }), "bench.credential_issued");
+  expect((await consoleCall("POST", `${org}/bench-credential`, { cookie: fx.developer.cookie })).status).toBe(201);
   await ok(await consoleCall("PATCH", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie, body: { role: "billing" } }), "member.role_changed");
   await ok(await consoleCall("DELETE", `${org}/invitations/${fx.invitation.id}`, { cookie: fx.coOwner.cookie }), "invitation.revoked");
   await ok(await consoleCall("DELETE", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie }), "member.removed");
@@ -195,6 +198,9 @@ describe("each entry as a sentence", () => {
     expect(text(one("member.invited").sentence)).toBe(`owner invited ${joiner.email} to join as a developer.`);
     expect(one("member.invited").sentence).toContainEqual({ text: joiner.email, style: "email" });
     expect(text(one("member.joined").sentence)).toBe("joiner joined as a developer.");
+    expect(text(one("bench.credential_issued").sentence)).toBe(
+      "developer received a bench credential: a test key for compute and usage:read that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.",
+    );
     expect(text(one("invitation.revoked").sentence)).toBe(`co-owner withdrew the invitation to ${invitee}.`);
     expect(text(one("member.role_changed").sentence)).toBe("owner changed the role of spare from developer to billing admin.");
     expect(text(one("member.removed", (e) => e.targetId === String(fx.spare.id)).sentence)).toBe("owner removed spare (billing admin); the keys they created keep working.");

@@ -284,19 +284,57 @@ describe("revocation", () => {
   });
 });
 
-describe("the try key", () => {
-  it("is a test key for compute and usage:read that lasts an hour, made by the caller, audited, not mailed", async () => {
-    const res = await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/try-key`, { cookie: fx.developer.cookie });
+describe("the bench credential", () => {
+  const renew = (p: Person) => consoleCall("POST", `/api/console/orgs/${fx.org.slug}/bench-credential`, { cookie: p.cookie });
+  const benchRows = () => fx.db.selectFrom("api_keys").selectAll().where("org_id", "=", fx.org.id).where("purpose", "=", "bench").execute();
+
+  it("is a test key for compute and usage:read that lasts an hour, held by the caller, audited once, not mailed, not listed", async () => {
+    const res = await renew(fx.developer);
     expect(res.status, res.text).toBe(201);
-    const { key, expiresAt } = res.body as { key: string; expiresAt: string };
-    expect(key.startsWith("test.prt1.")).toBe(true);
+    const { key, expiresAt, holder } = res.body as { key: string; expiresAt: string; holder: number };
+    expect(isWellFormedKey(key) && key.startsWith("test.prt1.")).toBe(true);
+    expect(holder).toBe(fx.developer.id);
     expect(Math.abs(Date.parse(expiresAt) - (Date.now() + 3600_000))).toBeLessThan(60_000);
     expect(await capacityWith(key)).toBe(200);
     expect((await getQuery("/api/v1/usage", {}, `Bearer ${key}`)).status).toBe(200);
+    // Only usage:read and compute: nothing else the API guards.
+    const [row] = await benchRows();
+    expect(row).toMatchObject({ scopes: "compute usage:read", mode: "test", created_by_user_id: fx.developer.id, key_hash: hashKey(key), revoked_at: null });
 
-    const listed = (await listKeys(fx.developer)).find((k) => key.startsWith(k.prefix) && k.name === "console try key");
-    expect(listed).toMatchObject({ scopes: ["compute", "usage:read"], mode: "test", expiresAt, createdBy: { id: fx.developer.id, email: fx.developer.email }, state: "active" });
-    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "key.created" && a.target_id === String(listed!.id))).toHaveLength(1);
+    for (const p of [fx.developer, fx.owner]) expect((await listKeys(p)).map((k) => k.id)).not.toContain(row!.id);
+    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "bench.credential_issued")).toHaveLength(1);
     expect(sentMails()).toEqual([]);
+  });
+
+  it("is one per person: a renewal gives the same credential a new secret, the previous secret stops, and nothing more is audited", async () => {
+    const first = (await renew(fx.developer)).body.key as string;
+    const second = (await renew(fx.developer)).body.key as string;
+    expect(second).not.toBe(first);
+    expect(await capacityWith(first)).toBe(401);
+    expect(await capacityWith(second)).toBe(200);
+    // Another person has their own.
+    const owners = (await renew(fx.owner)).body.key as string;
+    expect(await capacityWith(second)).toBe(200);
+    expect(await capacityWith(owners)).toBe(200);
+    expect((await benchRows()).map((r) => r.created_by_user_id).sort()).toEqual([fx.owner.id, fx.developer.id].sort());
+    expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "bench.credential_issued")).toHaveLength(2);
+  });
+
+  it("cannot be rotated or revoked as a key (it is not one people manage)", async () => {
+    await renew(fx.developer);
+    const [row] = await benchRows();
+    expectProblem(await rotate(fx.owner, row!.id, 0), 404, "not-found");
+    expectProblem(await revoke(fx.owner, row!.id), 404, "not-found");
+  });
+
+  it("ends when its holder leaves the org or becomes a billing admin, even when their keys are kept", async () => {
+    const dev = (await renew(fx.developer)).body.key as string;
+    const spare = (await renew(fx.spare)).body.key as string;
+    expect((await consoleCall("PATCH", `/api/console/orgs/${fx.org.slug}/members/${fx.spare.id}`, { cookie: fx.owner.cookie, body: { role: "billing" } })).status).toBe(200);
+    expect(await capacityWith(spare)).toBe(401);
+    expect((await consoleCall("DELETE", `/api/console/orgs/${fx.org.slug}/members/${fx.developer.id}`, { cookie: fx.owner.cookie })).status).toBe(200);
+    expect(await capacityWith(dev)).toBe(401);
+    // Their ordinary key was not revoked (no revokeKeys).
+    expect(await capacityWith(fx.keys.developer.key)).toBe(200);
   });
 });

@@ -129,7 +129,7 @@ const rows: Row[] = [
     path: (fx) => `${org(fx)}/keys/${fx.keys.spare.record.id}/revoke`,
     expect: { owner: 200, developer: 404, billing: 403 },
   },
-  { method: "POST", route: "/api/console/orgs/[org]/try-key", does: "get a try key", path: (fx) => `${org(fx)}/try-key`, expect: keyHolders(201) },
+  { method: "POST", route: "/api/console/orgs/[org]/bench-credential", does: "renew their bench credential", path: (fx) => `${org(fx)}/bench-credential`, expect: keyHolders(201) },
   { method: "GET", route: "/api/console/orgs/[org]/usage", does: "read usage", path: (fx) => `${org(fx)}/usage`, expect: everyone(200) },
   { method: "GET", route: "/api/console/orgs/[org]/audit", does: "read the audit log", path: (fx) => `${org(fx)}/audit`, expect: ownerOnly(200) },
 ];

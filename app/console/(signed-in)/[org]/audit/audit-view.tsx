@@ -19,6 +19,7 @@ const ACTIONS: Record<string, string> = {
   "key.created": "created a key",
   "key.rotated": "rotated a key",
   "key.revoked": "revoked a key",
+  "bench.credential_issued": "received a bench credential",
   "member.invited": "invited someone",
   "invitation.revoked": "withdrew an invitation",
   "member.joined": "joined",

@@ -1,5 +1,5 @@
 import { createParitasClient } from "@paritas/client";
-import { forgetTryKey, obtainTryKey } from "@/lib/console-client/try-key";
+import { obtainTryKey } from "@/lib/console-client/try-key";
 import type { EndpointInfo, TryKey } from "@/lib/console-client/types";
 
 export interface RunResult {
@@ -46,15 +46,14 @@ async function call(e: EndpointInfo, input: Record<string, unknown>, key: string
 }
 
 /**
- * Send one request with the org's bench key (a 1-hour test key kept in sessionStorage). A 401
- * means the key ended early (revoked, expired): fetch a fresh one and try once more.
+ * Send one request with the caller's bench credential (a test key renewed hourly, shared by their
+ * tabs). A 401 means it ended early (revoked, or renewed elsewhere): take the current one and try once more.
  */
 export async function runEndpoint(org: string, e: EndpointInfo, input: Record<string, unknown>): Promise<RunResult> {
   let tk: TryKey = await obtainTryKey(org);
   let out = await call(e, input, tk.key);
   if (out.response.status === 401) {
-    forgetTryKey(org);
-    tk = await obtainTryKey(org, { fresh: true });
+    tk = await obtainTryKey(org, { stale: tk.key });
     out = await call(e, input, tk.key);
   }
   return {
