@@ -105,8 +105,8 @@ function KeyList({ org }: { org: string }) {
       title="API keys"
       lead={
         role === "owner"
-          ? "Every key of the organisation. A key is shown once, when it is made; after that only its prefix."
-          : "The keys you created. A key is shown once, when it is made; after that only its prefix."
+          ? "Every key of the organisation. A key is shown once, when it is made; after that only its prefix. The bench's own credentials (one per person, renewed hourly, test mode) are not listed here."
+          : "The keys you created. A key is shown once, when it is made; after that only its prefix. The bench uses a credential of its own, not listed here."
       }
       actions={
         <button type="button" className={buttonPrimary} onClick={() => setCreating(true)}>
