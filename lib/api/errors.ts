@@ -1,5 +1,8 @@
 import { z } from "zod";
 
+/** Field errors listed in one problem at most; `omittedErrors` counts the rest, so a huge bad batch gives a small answer. */
+export const MAX_FIELD_ERRORS = 20;
+
 /** Every problem the API can answer with: code → HTTP status and a stable title (RFC 9457 §3.1). */
 export const problemTypes = {
   "bad-request": { status: 400, title: "The request could not be read", help: "The body is not valid JSON, or a header is malformed. Fix the syntax and send it again." },
@@ -20,7 +23,7 @@ export const problemTypes = {
   "reset-link-invalid": { status: 410, title: "The password link is no longer valid", help: "A password link works once, for one hour. Ask for a new one on the password reset page." },
   "payload-too-large": { status: 413, title: "The request body is too large", help: "Bodies are limited in size; split the work into several requests." },
   "unsupported-media-type": { status: 415, title: "The body must be JSON", help: "Send `Content-Type: application/json`." },
-  "validation-failed": { status: 422, title: "The request has invalid fields", help: "`errors` lists each invalid field as a JSON pointer with a message." },
+  "validation-failed": { status: 422, title: "The request has invalid fields", help: `\`errors\` lists each invalid field as a JSON pointer with a message, at most ${MAX_FIELD_ERRORS} (in a batch, each bad word once); \`omittedErrors\` counts those beyond.` },
   "work-limit": { status: 422, title: "The request asks for more work than one call may do", help: "`limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part)." },
   "deadline-exceeded": { status: 422, title: "The computation ran past its deadline", help: "The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code." },
   "memory-limit": { status: 422, title: "The computation ran out of its memory allowance", help: "The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call." },
@@ -51,7 +54,7 @@ export class ApiError extends Error {
   constructor(
     readonly code: ProblemCode,
     readonly detail: string,
-    readonly extra: { errors?: FieldError[]; headers?: Record<string, string>; limit?: LimitInfo } = {},
+    readonly extra: { errors?: FieldError[]; omittedErrors?: number; headers?: Record<string, string>; limit?: LimitInfo } = {},
   ) {
     super(detail);
     this.name = "ApiError";
@@ -66,6 +69,23 @@ export const problemTypeUri = (code: ProblemCode) => `/problems/${code}`;
 /** JSON pointer for a path of keys (RFC 6901 escaping of `~` and `/`). */
 export function toPointer(path: readonly PropertyKey[]): string {
   return path.map((p) => "/" + String(p).replace(/~/g, "~0").replace(/\//g, "~1")).join("");
+}
+
+/**
+ * The validation-failed problem for `errors` (in the order given): the first MAX_FIELD_ERRORS listed, and
+ * the number left out in `omittedErrors`. `summary` opens the detail when there is more than one error.
+ */
+export function validationProblem(errors: FieldError[], summary = `${errors.length} fields are invalid`): ApiError {
+  const listed = errors.slice(0, MAX_FIELD_ERRORS);
+  const omitted = errors.length - listed.length;
+  const first = errors[0];
+  const detail =
+    errors.length === 1 && first
+      ? `${first.pointer || "the body"}: ${first.message}`
+      : omitted > 0
+        ? `${summary}; errors lists the first ${listed.length} and omittedErrors counts the other ${omitted}.`
+        : `${summary}; see errors.`;
+  return new ApiError("validation-failed", detail, { errors: listed, ...(omitted > 0 ? { omittedErrors: omitted } : {}) });
 }
 
 /** zod issues → field errors with JSON pointers; an unknown field of a strict object points at that field itself. */
@@ -84,7 +104,18 @@ export const problemSchema = z
     status: z.number().int(),
     detail: z.string(),
     instance: z.string().meta({ description: "The request id of the failed request." }),
-    errors: z.array(z.object({ pointer: z.string(), message: z.string() })).optional(),
+    errors: z
+      .array(z.object({ pointer: z.string(), message: z.string() }))
+      .optional()
+      .meta({ description: `Each invalid field as a JSON pointer into the body (or \`?name\` for a query parameter) with a message; at most ${MAX_FIELD_ERRORS}.` }),
+    omittedErrors: z
+      .number()
+      .int()
+      .min(1)
+      .optional()
+      .meta({
+        description: `Present when more than ${MAX_FIELD_ERRORS} fields are invalid: how many were found beyond those \`errors\` lists. In a batch of words, each bad word counts once.`,
+      }),
     limit: z
       .object({ quantity: z.string(), requested: z.number().optional(), allowed: z.number(), unit: z.string() })
       .optional()
@@ -105,6 +136,7 @@ export function problemResponse(err: unknown, requestId: string): Response {
     detail: e.detail,
     instance: requestId,
     ...(e.extra.errors ? { errors: e.extra.errors } : {}),
+    ...(e.extra.omittedErrors ? { omittedErrors: e.extra.omittedErrors } : {}),
     ...(e.extra.limit ? { limit: e.extra.limit } : {}),
   };
   return new Response(JSON.stringify(body), {

@@ -4,7 +4,7 @@ import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
 import { authenticate, requireScope, type KeyPrincipal } from "./auth";
 import { parseJsonBody, readBodyText } from "./body";
 import type { Endpoint, Method } from "./endpoint";
-import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, type ProblemCode } from "./errors";
+import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem, type ProblemCode } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
 import { consumeRate } from "./rate-limit";
@@ -14,13 +14,7 @@ import { checkWork, unitsFor, workLimits } from "./work";
 // Route modules and the console guard take the request id from here, with the rest of the HTTP machinery.
 export { requestIdFor };
 
-function validationFailed(errors: { pointer: string; message: string }[]): ApiError {
-  const first = errors[0];
-  const detail = errors.length === 1 && first ? `${first.pointer || "the body"}: ${first.message}` : `${errors.length} fields are invalid; see errors.`;
-  return new ApiError("validation-failed", detail, { errors });
-}
-
-const inputProblem = (e: InputError) => validationFailed([{ pointer: toPointer(e.path), message: e.message }]);
+const inputProblem = (e: InputError) => validationProblem([{ pointer: toPointer(e.path), message: e.message }]);
 const asProblem = (err: unknown) => (err instanceof InputError ? inputProblem(err) : err);
 
 function readInput(req: Request, bodyText: string, method: Method): unknown {
@@ -119,7 +113,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
 
   async function compute(raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
     const parsed = spec.input.safeParse(raw);
-    if (!parsed.success) throw validationFailed(fieldErrorsFromZod(parsed.error));
+    if (!parsed.success) throw validationProblem(fieldErrorsFromZod(parsed.error));
     const input = parsed.data;
     let json: string;
     let units: number;

@@ -8,6 +8,7 @@ import { atWord, codeSummary, crcHex, crcParams, formatCrcWord, formatWord, read
 import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
+import { WordErrors } from "../word-errors";
 import { MAX_BATCH_BITS, MAX_BATCH_WORDS, resolveBatch } from "./encode";
 
 /**
@@ -125,15 +126,17 @@ export const decode = defineEndpoint({
   workRule: `the code's construction once, then each word. ${CODE_WORK_RULE}`,
   handler: (req) => {
     const crc = req.code.family === "crc" ? { spec: req.code, params: crcParams(req.code) } : undefined;
-    const words = req.words.map((w, i) => at(["words", i], () => readWord(req.code, w, crc?.params.width)));
+    // Every bad word is reported, not only the first: each check below records its word's error (or its erasures') and skips words that failed.
+    const errors = new WordErrors("words", req.words.length, ["erasures"]);
+    const words = errors.each(req.words, (w, i) => at(["words", i], () => readWord(req.code, w, crc?.params.width)));
     // A CRC word is message + CRC: the message length is the word's minus the width.
-    const codes = resolveBatch(req.code, words, "words", (width) => width);
+    const codes = resolveBatch(req.code, words, errors, (width) => width);
     // Every family but CRC (whose k is each word's length) has one code for the whole batch; erasures go word by word.
-    const together = req.code.family === "crc" || req.erasures?.some((e) => e.length > 0) ? undefined : decodeTogether(codes[0]!, words);
-    const results = words.map((w, i) => {
+    const together = req.code.family === "crc" || errors.any || req.erasures?.some((e) => e.length > 0) ? undefined : decodeTogether(codes[0]!, words as Word[]);
+    const checked = errors.each(words, (w, i) => {
       const code = codes[i]!;
       const erasures = req.erasures?.[i];
-      if (erasures?.length && !code.supportsErasures) throw new InputError(`${code.name} does not take erasures`, ["erasures", i]);
+      if (erasures?.length && !code.supportsErasures) throw new InputError(`${code.name} does not take erasures; send an empty list for this word`, ["erasures", i]);
       const r = together?.[i] ?? atWord("words", i, () => code.decode(w, erasures?.length ? erasures : undefined));
       const common = {
         correctedPositions: r.correctedPositions,
@@ -151,6 +154,7 @@ export const decode = defineEndpoint({
         crc: { received: crcHex(crcAppendedValue(crc.params, cw.subarray(code.k)), width), computed: crcHex(crcComputeBits(crc.params, cw.subarray(0, code.k)), width) },
       };
     });
+    const results = errors.settle(checked);
     return { code: summarize(codes[0]!, req.code), results, failures: results.filter((r) => r.failure).length };
   },
 });

@@ -7,30 +7,34 @@ import { atWord, codeSummary, crcHex, crcParams, formatCrcWord, formatWord, read
 import { batchWork, CODE_WORK_RULE } from "../code-work";
 import { at, defineEndpoint } from "../endpoint";
 import { documentRules } from "../schemas";
+import { WordErrors } from "../word-errors";
 
 /** Words per call. */
 export const MAX_BATCH_WORDS = 1024;
 /** Codeword bits per call, all words together (symbols count m bits each). */
 export const MAX_BATCH_BITS = 1 << 22;
 
-/** Each word's code (CRC codes take their length from the word) and the batch size check. */
-export function resolveBatch(spec: z.output<typeof codeSpec>, words: Word[], field: string, crcExtra: (width: number) => number): BlockCode[] {
+/**
+ * Each word's code (CRC codes take their length from the word) and the batch size check. A word too short
+ * for its code is recorded in `errors`; words that already failed are skipped (undefined).
+ */
+export function resolveBatch(spec: z.output<typeof codeSpec>, words: (Word | undefined)[], errors: WordErrors, crcExtra: (width: number) => number): (BlockCode | undefined)[] {
   const width = spec.family === "crc" ? crcParams(spec).width : 0;
   // Resolved once: hashing a large matrix spec per word would cost more than the words.
   const one = spec.family === "crc" ? undefined : resolveCode(spec, ["code"]);
-  const codes = words.map((w, i) => {
+  const codes = errors.each(words, (w, i) => {
     if (one) return one;
     // The word's length is the word's fault; the CRC's parameters are the spec's (errors at /code/...).
     const k = w.length - crcExtra(width);
-    if (k < 0) throw new InputError(`the word has ${w.length} bits, fewer than the ${width}-bit CRC`, [field, i]);
+    if (k < 0) throw new InputError(`the word has ${w.length} bits, fewer than the ${width}-bit CRC it must end with`, [errors.field, i]);
     return resolveCode(spec, ["code"], k);
   });
   const bits = batchBits(codes);
-  if (bits > MAX_BATCH_BITS) throw new InputError(`the batch has ${bits} codeword bits; one call may have at most ${MAX_BATCH_BITS}`, [field]);
+  if (bits > MAX_BATCH_BITS) throw new InputError(`the batch has ${bits} codeword bits; one call may have at most ${MAX_BATCH_BITS}`, [errors.field]);
   return codes;
 }
 
-export const batchBits = (codes: BlockCode[]) => codes.reduce((s, c) => s + c.n * Math.log2(c.q), 0);
+export const batchBits = (codes: (BlockCode | undefined)[]) => codes.reduce((s, c) => s + (c ? c.n * Math.log2(c.q) : 0), 0);
 
 /**
  * The codewords of messages that all belong to `code`, from one encodeBatch call over them back to back, or
@@ -109,16 +113,19 @@ export const encode = defineEndpoint({
   work: (req) => batchWork(req.code, req.messages, "encode"),
   workRule: `the code's construction once, then each message. ${CODE_WORK_RULE}`,
   handler: (req) => {
-    const messages = req.messages.map((m, i) => at(["messages", i], () => readWord(req.code, m)));
-    const codes = resolveBatch(req.code, messages, "messages", () => 0);
+    // Every bad message is reported, not only the first: each check below records its word's error and skips words that failed.
+    const errors = new WordErrors("messages", req.messages.length);
+    const messages = errors.each(req.messages, (m, i) => at(["messages", i], () => readWord(req.code, m)));
+    const codes = resolveBatch(req.code, messages, errors, () => 0);
     // Every family but CRC (whose k is each message's length) has one code for the whole batch.
-    const together = req.code.family === "crc" ? undefined : encodeTogether(codes[0]!, messages);
-    const codewords = messages.map((m, i) => {
+    const together = req.code.family === "crc" || errors.any ? undefined : encodeTogether(codes[0]!, messages as Word[]);
+    const results = errors.each(messages, (m, i) => {
       const code = codes[i]!;
       const cw = together?.[i] ?? atWord("messages", i, () => code.encode(m));
       if (req.code.family !== "crc") return { codeword: formatWord(code, cw) };
       return { codeword: formatCrcWord(req.code, cw as Uint8Array), crc: crcHex(crcComputeBits(crcParams(req.code), m as Uint8Array), code.n - code.k) };
     });
+    const codewords = errors.settle(results);
     return { code: summarize(codes[0]!, req.code), codewords };
   },
 });
