@@ -10,6 +10,7 @@ import * as golay24 from "./baselines/golay24";
 import * as hamming74 from "./baselines/hamming74";
 import * as hamming84 from "./baselines/hamming84";
 import * as rs255 from "./baselines/rs255";
+import { rng } from "../tests/helpers/rng";
 
 /**
  * Encode and decode throughput (Mbit/s of information) of the shipped codecs beside deliberately
@@ -26,16 +27,6 @@ interface Case {
   code: BlockCode;
   baseline: Baseline;
   errors: number;
-}
-
-// mulberry32: the same words on every run.
-function rng(seed: number) {
-  return () => {
-    seed = (seed + 0x6d2b79f5) | 0;
-    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 function words(code: BlockCode, count: number, errors: number, seed: number) {

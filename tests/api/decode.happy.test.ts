@@ -2,6 +2,7 @@ import { crc32 } from "node:zlib";
 import { beforeAll, describe, expect, it } from "vitest";
 import { postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
+import { rng } from "../helpers/rng";
 
 let auth: string;
 beforeAll(async () => {
@@ -38,16 +39,6 @@ async function decodeOk(body: unknown): Promise<DecodeBody> {
 
 // ---- Plain helpers written here, independent of lib/core ----
 
-/** Seeded PRNG (mulberry32): the same errors on every run. */
-function rng(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let x = Math.imul(s ^ (s >>> 15), s | 1);
-    x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
-    return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-  };
-}
 const int = (next: () => number, below: number) => Math.floor(next() * below);
 
 /** `count` distinct positions out of 0..n−1 (partial Fisher–Yates), ascending. */

@@ -2,6 +2,7 @@ import { crc32 } from "node:zlib";
 import { beforeAll, describe, expect, it } from "vitest";
 import { postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
+import { rng } from "../helpers/rng";
 
 let auth: string;
 beforeAll(async () => {
@@ -23,17 +24,6 @@ async function encodeOk(body: unknown): Promise<EncodeBody> {
 }
 
 // ---- Plain helpers written here, independent of lib/core ----
-
-/** Seeded PRNG (mulberry32), so every run draws the same messages. */
-function rng(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let x = Math.imul(s ^ (s >>> 15), s | 1);
-    x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
-    return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const bitsOf = (s: string) => [...s].map(Number);
 const str = (b: number[]) => b.join("");

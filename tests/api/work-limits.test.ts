@@ -7,6 +7,7 @@ import { closePools, poolLimits } from "@/lib/jobs/pool";
 import { expectProblem, expectWorkLimit, postJson } from "../helpers/api";
 import { createApp } from "../helpers/app";
 import { makeOrgWithKey } from "../helpers/fixtures";
+import { rng } from "../helpers/rng";
 
 /**
  * Requests whose math would hold a core for seconds or more: each is refused before the work starts (422
@@ -36,17 +37,6 @@ beforeAll(async () => {
   expect((await cheapCall()).status).toBe(200);
 });
 afterAll(() => new Promise<void>((resolve) => probeServer.close(() => resolve())));
-
-/** Seeded PRNG (mulberry32): the same words on every run. */
-function rng(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let x = Math.imul(s ^ (s >>> 15), s | 1);
-    x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
-    return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A random word of `bits` bits as { hex, length }. */
 const hexWord = (next: () => number, bits: number) => ({

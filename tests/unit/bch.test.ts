@@ -4,6 +4,7 @@ import { type BchCode, bch } from "@/lib/core/codes/bch";
 import { InputError } from "@/lib/core/errors";
 import { DEFAULT_PRIMITIVE_POLYNOMIALS } from "@/lib/core/gfpm";
 import * as poly2 from "@/lib/core/poly2";
+import { rng } from "../helpers/rng";
 
 // ---- Independent construction, written here with plain arithmetic (no lib/core/gfpm, poly2 or polym) ----
 
@@ -35,16 +36,6 @@ function independentGenerator(m: number, t: number): string {
   let v = 0n;
   for (let i = g.length - 1; i >= 0; i--) v = (v << 1n) | BigInt(g[i]!);
   return v.toString(8);
-}
-
-function rng(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let x = Math.imul(s ^ (s >>> 15), s | 1);
-    x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
-    return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 function randomBits(next: () => number, length: number): Uint8Array {

@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import { bitsToSymbols, type RsCode, rs, symbolsToBits } from "@/lib/core/codes/rs";
 import { InputError } from "@/lib/core/errors";
 import { galoisField } from "@/lib/core/gfpm";
+import { rng } from "../helpers/rng";
 
 // ---- Plain arithmetic written here, independent of lib/core ----
 
@@ -31,16 +32,6 @@ function plainSyndromes(code: RsCode, word: ArrayLike<number>): number[] {
     for (let i = 0; i < n; i++) v = plainMul(v, x, m, poly) ^ word[i]!;
     return v;
   });
-}
-
-function rng(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let x = Math.imul(s ^ (s >>> 15), s | 1);
-    x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
-    return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 function distinctPositions(next: () => number, n: number, count: number): number[] {
