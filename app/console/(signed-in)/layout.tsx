@@ -1,15 +1,17 @@
 import type { ReactNode } from "react";
 import { ConsoleShell } from "@/components/console/shell";
-import { SignInRedirect } from "@/components/console/sign-in-redirect";
+import { redirect } from "next/navigation";
 import { pageSession } from "./session";
 
 /**
  * Sign-in required for every console page (the dev mailbox lives outside this group on purpose:
- * it must work before anyone can sign in). Without a session nothing below renders; the visitor
- * goes to /signin?callbackUrl=<this page>. Every console route checks the session and role again.
+ * it must work before anyone can sign in). proxy.ts redirects a visitor without a session to
+ * /signin?callbackUrl=<the page> before this runs; a session that ended in between still renders
+ * nothing and goes to sign-in (a layout does not know the page's path, so back to the console's start).
+ * Every console route checks the session and role again.
  */
 export default async function SignedInLayout({ children }: { children: ReactNode }) {
   const session = await pageSession();
-  if (!session) return <SignInRedirect />;
+  if (!session) redirect("/signin?callbackUrl=%2Fconsole");
   return <ConsoleShell>{children}</ConsoleShell>;
 }
