@@ -28,6 +28,16 @@ export interface FieldSpec {
   /** json: what the value is ("array", "object", "one of several shapes"). */
   shape?: string;
   pattern?: string;
+  /** json: a union of objects told apart by one constant property, for a structured picker. */
+  union?: UnionSpec;
+  /** json: one of the accepted shapes is a plain string, so text that is not JSON can stand for itself. */
+  takesString?: boolean;
+}
+
+/** A union of object shapes told apart by the constant value of one property (the discriminator). */
+export interface UnionSpec {
+  discriminator: string;
+  variants: { value: string; description?: string; fields: FieldSpec[] }[];
 }
 
 /** One end of a numeric range; `exclusive` for JSON Schema's exclusiveMinimum / exclusiveMaximum (zod's gt / lt). */
@@ -36,10 +46,7 @@ export interface Bound {
   exclusive: boolean;
 }
 
-export type FormPlan =
-  | { kind: "fields"; fields: FieldSpec[] }
-  | { kind: "variants"; discriminator: string; variants: { value: string; description?: string; fields: FieldSpec[] }[] }
-  | { kind: "raw" };
+export type FormPlan = { kind: "fields"; fields: FieldSpec[] } | ({ kind: "variants" } & UnionSpec) | { kind: "raw" };
 
 const isObj = (v: unknown): v is Schema => typeof v === "object" && v !== null && !Array.isArray(v);
 
@@ -62,8 +69,12 @@ export function resolveRef(s: unknown, root: Schema, depth = 0): Schema {
 
 const branches = (s: Schema): unknown[] | undefined => (Array.isArray(s.oneOf) ? s.oneOf : Array.isArray(s.anyOf) ? s.anyOf : undefined);
 
+/**
+ * zod writes `.int()` as the range ±(2^53 − 1) (Number.MAX_SAFE_INTEGER), a limit of the number type,
+ * not one anybody documented: a bound that large is no bound. Real limits (n ≤ 65535, m ≤ 16) stay.
+ */
 function num(v: unknown): number | undefined {
-  return typeof v === "number" && Number.isFinite(v) ? v : undefined;
+  return typeof v === "number" && Number.isFinite(v) && Math.abs(v) < Number.MAX_SAFE_INTEGER ? v : undefined;
 }
 
 /**
@@ -99,7 +110,7 @@ function typeOf(s: Schema): string | undefined {
   return undefined;
 }
 
-function fieldOf(name: string, raw: unknown, required: boolean, root: Schema): FieldSpec {
+function fieldOf(name: string, raw: unknown, required: boolean, root: Schema, depth: number): FieldSpec {
   let s = resolveRef(raw, root);
   // A nullable wrapper (anyOf [X, {type: null}]) is X for the form.
   const b = branches(s);
@@ -123,47 +134,46 @@ function fieldOf(name: string, raw: unknown, required: boolean, root: Schema): F
     if (t === "string") return { ...base, kind: "string", pattern: typeof s.pattern === "string" ? s.pattern : undefined };
   }
   const shape = branches(s) ? "one of several shapes" : t === "array" ? "array" : t === "object" ? "object" : "JSON value";
-  return { ...base, kind: "json", shape };
+  const union = depth < 2 ? unionOf(s, root, depth + 1) : undefined;
+  const takesString = (branches(s) ?? []).some((x) => typeOf(resolveRef(x, root)) === "string");
+  return { ...base, kind: "json", shape, ...(union ? { union } : {}), ...(takesString ? { takesString } : {}) };
 }
 
-function fieldsOf(obj: Schema, root: Schema, skip?: string): FieldSpec[] {
+function fieldsOf(obj: Schema, root: Schema, depth: number, skip?: string): FieldSpec[] {
   const props = isObj(obj.properties) ? obj.properties : {};
   const required = new Set(Array.isArray(obj.required) ? (obj.required as string[]) : []);
   return Object.entries(props)
     .filter(([name]) => name !== skip)
-    .map(([name, p]) => fieldOf(name, p, required.has(name), root));
+    .map(([name, p]) => fieldOf(name, p, required.has(name), root, depth));
+}
+
+/** The schema as a union of objects told apart by one constant string property, with each shape's fields; undefined when it is not one. */
+function unionOf(s: Schema, root: Schema, depth: number): UnionSpec | undefined {
+  const b = branches(s);
+  if (!b || b.length === 0) return undefined;
+  const objs = b.map((x) => resolveRef(x, root));
+  if (!objs.every((o) => isObj(o.properties))) return undefined;
+  const first = objs[0];
+  const candidates = first && isObj(first.properties) ? Object.keys(first.properties) : [];
+  const constOf = (o: Schema, name: string) => resolveRef((o.properties as Schema)[name], root).const;
+  const discriminator = candidates.find((name) => objs.every((o) => typeof constOf(o, name) === "string"));
+  if (!discriminator) return undefined;
+  return {
+    discriminator,
+    variants: objs.map((o) => ({
+      value: String(constOf(o, discriminator)),
+      description: typeof o.description === "string" ? o.description : undefined,
+      fields: fieldsOf(o, root, depth, discriminator),
+    })),
+  };
 }
 
 /** The form for a JSON Schema: fields of an object, a variant picker for a union of objects told apart by one constant property, else one JSON text area. */
 export function planForm(schema: Schema): FormPlan {
   const top = resolveRef(schema, schema);
-  if (typeOf(top) === "object" || isObj(top.properties)) return { kind: "fields", fields: fieldsOf(top, schema) };
-  const b = branches(top);
-  if (b) {
-    const objs = b.map((x) => resolveRef(x, schema));
-    if (objs.every((o) => isObj(o.properties))) {
-      const first = objs[0];
-      const candidates = first && isObj(first.properties) ? Object.keys(first.properties) : [];
-      const discriminator = candidates.find((name) =>
-        objs.every((o) => {
-          const p = resolveRef((o.properties as Schema)[name], schema);
-          return "const" in p && typeof p.const === "string";
-        }),
-      );
-      if (discriminator) {
-        return {
-          kind: "variants",
-          discriminator,
-          variants: objs.map((o) => ({
-            value: String(resolveRef((o.properties as Schema)[discriminator], schema).const),
-            description: typeof o.description === "string" ? o.description : undefined,
-            fields: fieldsOf(o, schema, discriminator),
-          })),
-        };
-      }
-    }
-  }
-  return { kind: "raw" };
+  if (typeOf(top) === "object" || isObj(top.properties)) return { kind: "fields", fields: fieldsOf(top, schema, 0) };
+  const union = unionOf(top, schema, 0);
+  return union ? { kind: "variants", ...union } : { kind: "raw" };
 }
 
 /** The name of the raw JSON field when the plan is "raw". */

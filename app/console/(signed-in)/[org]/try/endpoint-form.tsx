@@ -22,6 +22,7 @@ import {
   type FormValues,
 } from "@/lib/console-client/schema-form";
 import type { EndpointInfo } from "@/lib/console-client/types";
+import { UnionField } from "./union-field";
 
 type Body = Record<string, unknown>;
 
@@ -171,10 +172,12 @@ function FieldsForm({
   onRun,
   running,
   serverErrors,
+  examples,
 }: {
   plan: FormPlan;
   variant: string | undefined;
   seed: unknown;
+  examples: EndpointInfo["examples"];
   check: { on: boolean; schema: ReturnType<typeof bodySchemaOf> };
   onVariant: (v: string) => void;
   onRun: (body: Body) => void;
@@ -182,10 +185,12 @@ function FieldsForm({
   serverErrors?: FieldProblem[];
 }) {
   const idBase = useId();
+  // A union field's picker starts a newly chosen shape from the endpoint's own example of it.
+  const examplesOf = (name: string) => Object.values(examples).map((e) => (typeof e.value === "object" && e.value !== null ? (e.value as Body)[name] : undefined));
   const fields = useMemo(() => activeFields(plan, variant), [plan, variant]);
   const defaults = useMemo(() => valuesFor(plan, fields, seed, variant), [plan, fields, seed, variant]);
   const schema = useMemo(() => buildFormSchema(plan, fields, check.on ? check.schema : null), [plan, fields, check.on, check.schema]);
-  const { register, handleSubmit, reset, formState } = useForm<FormValues, unknown, Body>({ resolver: zodResolver(schema), defaultValues: defaults });
+  const { register, handleSubmit, reset, formState, control, setValue } = useForm<FormValues, unknown, Body>({ resolver: zodResolver(schema), defaultValues: defaults });
   const errors = formState.errors as Record<string, { message?: string } | undefined>;
 
   const server = new Map<string, string[]>();
@@ -203,7 +208,21 @@ function FieldsForm({
         <VariantSelect plan={plan} variant={variant} register={register} onVariant={onVariant} id={`${idBase}-variant`} server={server.get(plan.discriminator)} />
       ) : null}
       {fields.length === 0 ? <p className="text-sm text-ink-2">This endpoint takes no input.</p> : null}
-      {fields.map((f) => (
+      {fields.map((f) =>
+        f.kind === "json" && f.union ? (
+          <UnionField
+            key={f.name}
+            f={f}
+            union={f.union}
+            id={`${idBase}-${f.name}`}
+            control={control}
+            register={register}
+            setValue={setValue}
+            examples={examplesOf(f.name)}
+            error={errors[f.name]?.message}
+            server={server.get(f.name)}
+          />
+        ) : (
         <Field
           key={f.name}
           f={f}
@@ -213,7 +232,8 @@ function FieldsForm({
           server={server.get(f.name)}
           initialLines={String(defaults[f.name] ?? "").split("\n").length}
         />
-      ))}
+        ),
+      )}
       {rootMessage || serverRoot ? (
         <p role="alert" className={errorText}>
           {rootMessage}
@@ -357,6 +377,7 @@ export function EndpointForm({
         onRun={onRun}
         running={running}
         serverErrors={serverErrors}
+        examples={examples}
       />
     </div>
   );
