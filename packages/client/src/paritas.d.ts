@@ -131,9 +131,9 @@ export interface paths {
         put?: never;
         /**
          * Channel capacity, the Shannon limit on Eb/N0 for a rate, and the gap to it
-         * @description BSC 1 − H2(p); BEC 1 − ε; real AWGN ½·log2(1 + S/N) per real dimension and B·log2(1 + S/N) bits/s with a bandwidth (Shannon–Hartley), limit (2^(2R) − 1)/(2R); BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding.
+         * @description BSC 1 − H2(p); BEC 1 − ε; real AWGN ½·log2(1 + S/N) per real dimension and B·log2(1 + S/N) bits/s with a bandwidth (Shannon–Hartley), limit (2^(2R) − 1)/(2R); BPSK-input AWGN by numerical integration (error below 1e-9 bits), limit by root finding. Give a `rate` without an operating point for its Shannon limit alone (`rate: 0` on AWGN for the R → 0 limit, ln 2 = −1.59 dB). Every response names the rate's unit in `rateUnit`: per channel use on BSC, BEC and BPSK input; on AWGN per real dimension unless the request says per complex symbol (QPSK, QAM).
          *
-         *     **Work and cost.** 256 for BSC, BEC and AWGN (closed forms); 2^23 for BPSK-input AWGN (numerical integration), plus 2^24 when a `rate` asks for its Shannon limit (root finding over the integral). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *     **Work and cost.** 256 for BSC, BEC and AWGN (closed forms); 2^23 for BPSK-input AWGN at an operating point (numerical integration), plus 2^24 when a `rate` asks for its Shannon limit (root finding over the integral). A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
          *
          *     Scope: `compute`.
          */
@@ -329,10 +329,13 @@ export interface components {
             detail: string;
             /** @description The request id of the failed request. */
             instance: string;
+            /** @description Each invalid field as a JSON pointer into the body (or `?name` for a query parameter) with a message; at most 20. */
             errors?: {
                 pointer: string;
                 message: string;
             }[];
+            /** @description Present when more than 20 fields are invalid: how many were found beyond those `errors` lists. In a batch of words, each bad word counts once. */
+            omittedErrors?: number;
             /** @description Work, deadline and memory limits: the quantity, what the request needed (when known) and what one call allows. */
             limit?: {
                 quantity: string;
@@ -746,10 +749,11 @@ export interface components {
         CapacityResult: {
             /** @enum {string} */
             channel: "bsc" | "bec" | "awgn" | "bpsk-awgn";
-            capacity: {
+            /** @description In `rateUnit`. Left out when the request gives no operating point (a Shannon limit alone). */
+            capacity?: {
                 value: number;
                 /** @enum {string} */
-                unit: "bits per channel use";
+                unit: "bits per channel use" | "bits per real dimension" | "bits per complex symbol";
                 /** @description Bound on the numerical integration error (BPSK input only). */
                 absError?: number;
             };
@@ -764,14 +768,20 @@ export interface components {
                 db: number | null;
                 linear: number;
             };
+            /** @description The request's rate, in `rateUnit`. */
             rate?: number;
+            /**
+             * @description The unit of `rate`, `capacity` and `rateMargin`: as the request stated it, or the channel's default.
+             * @enum {string}
+             */
+            rateUnit: "bits per channel use" | "bits per real dimension" | "bits per complex symbol";
             /** @description C − R: positive when reliable communication at rate R is possible. */
             rateMargin?: {
                 value: number;
                 /** @enum {string} */
-                unit: "bits per channel use";
+                unit: "bits per channel use" | "bits per real dimension" | "bits per complex symbol";
             };
-            /** @description Smallest Eb/N0 at which rate R can be reliable on this channel. */
+            /** @description Smallest Eb/N0 (per information bit) at which rate R can be reliable on this channel; the same whichever unit R is given in. */
             shannonLimit?: {
                 ebN0Db: number;
                 ebN0: number;
@@ -788,12 +798,22 @@ export interface components {
             /** @description Crossover probability. */
             p: number;
             rate?: number;
+            /**
+             * @description The rate's unit: information bits per channel use (the only one here).
+             * @enum {string}
+             */
+            rateUnit?: "bits per channel use";
         } | {
             /** @enum {string} */
             channel: "bec";
             /** @description Erasure probability ε. */
             erasure: number;
             rate?: number;
+            /**
+             * @description The rate's unit: information bits per channel use (the only one here).
+             * @enum {string}
+             */
+            rateUnit?: "bits per channel use";
         } | ({
             /** @enum {string} */
             channel: "awgn";
@@ -801,13 +821,19 @@ export interface components {
             snrDb?: number;
             /** @description S/N as a linear ratio: 0, or from 1e-10 to 1e10 (−100 to 100 dB, as `snrDb`). */
             snr?: number;
-            /** @description Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 per real dimension. */
+            /** @description Eb/N0 in dB; needs `rate`, which sets S/N = 2R·Eb/N0 for R per real dimension (R·Eb/N0 per complex symbol). */
             ebN0Db?: number;
-            /** @description Code rate R in information bits per real channel use (for a binary code with BPSK, k/n). */
+            /** @description Code rate R in information bits per `rateUnit` (with BPSK or QPSK, k/n per real dimension). 0 asks for the R → 0 limit, Eb/N0 = ln 2 (−1.59 dB). */
             rate?: number;
+            /**
+             * @description The unit of `rate`, and of the capacity and margin in the response: per real dimension (the default), or per complex symbol, which is 2 real dimensions (QPSK at rate 1/2 carries 1 bit per complex symbol).
+             * @default bits per real dimension
+             * @enum {string}
+             */
+            rateUnit: "bits per real dimension" | "bits per complex symbol";
             /** @description Bandwidth B in Hz: adds the Shannon–Hartley capacity B·log2(1 + S/N) in bits/s. */
             bandwidthHz?: number;
-        } & (unknown | unknown | unknown)) | ({
+        } & (unknown | unknown | unknown | unknown)) | ({
             /** @enum {string} */
             channel: "bpsk-awgn";
             /** @description Es/N0 per BPSK symbol in dB. */
@@ -815,7 +841,12 @@ export interface components {
             /** @description Eb/N0 in dB; needs `rate` (Es/N0 = R·Eb/N0). */
             ebN0Db?: number;
             rate?: number;
-        } & (unknown | unknown));
+            /**
+             * @description The rate's unit: information bits per channel use (the only one here).
+             * @enum {string}
+             */
+            rateUnit?: "bits per channel use";
+        } & (unknown | unknown | unknown));
         LinkBerResult: {
             modulation: string;
             order: number;
@@ -1087,7 +1118,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -1268,7 +1299,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -1449,7 +1480,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -1630,7 +1661,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -1811,7 +1842,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -1992,7 +2023,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -2173,7 +2204,7 @@ export interface operations {
                 };
             };
             /**
-             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message.
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
              *
@@ -2294,7 +2325,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message. */
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
             422: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
