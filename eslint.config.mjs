@@ -4,7 +4,7 @@ import nextTs from "eslint-config-next/typescript";
 const config = [
   ...nextVitals,
   ...nextTs,
-  { ignores: [".next/**", "node_modules/**", "data/**", "public/vendor/**", "dist/**", ".scratch-core/**", "next-env.d.ts", "tests/fixtures/**/*.py"] },
+  { ignores: [".next/**", "node_modules/**", "data/**", "public/vendor/**", "dist/**", "packages/*/dist/**", ".scratch-core/**", "next-env.d.ts", "tests/fixtures/**/*.py"] },
 ];
 
 export default config;

@@ -36,7 +36,7 @@ function indent(text: string, by: string): string {
     .join("\n");
 }
 
-/** The same call through the typed client in lib/client. */
+/** The same call through the typed client package, @paritas/client (packages/client). */
 export function clientSnippet(r: RequestShape): string {
   const input = indent(JSON.stringify(r.input, null, 2), "  ");
   const call =
@@ -44,7 +44,7 @@ export function clientSnippet(r: RequestShape): string {
       ? `await paritas.GET(${JSON.stringify(r.path)}, {\n  params: { query: ${indent(input, "  ")} },\n});`
       : `await paritas.${r.method}(${JSON.stringify(r.path)}, {\n  body: ${input},\n});`;
   return [
-    `import { createParitasClient } from "@/lib/client";`,
+    `import { createParitasClient } from "@paritas/client";`,
     ``,
     `const paritas = createParitasClient({`,
     `  baseUrl: ${JSON.stringify(`${r.origin}/api/v1`)},`,

@@ -99,8 +99,8 @@ export function ResultView({ result, origin }: { result: RunResult; origin: stri
         <CodePanel label="TypeScript" text={clientSnippet(request)} />
       </div>
       <p className="-mt-2 text-xs text-ink-2">
-        Both read the key from <code className="font-mono">$PARITAS_KEY</code>; put one of your own keys there. The snippet uses the typed client in{" "}
-        <code className="font-mono">lib/client</code>, so paths and bodies are checked at compile time.
+        Both read the key from <code className="font-mono">$PARITAS_KEY</code>; put one of your own keys there. The snippet uses the typed client package{" "}
+        <code className="font-mono">@paritas/client</code> (packages/client in the repository), so paths and bodies are checked at compile time.
       </p>
     </section>
   );
