@@ -126,7 +126,7 @@ describe("@paritas/client package", () => {
     }, 60_000);
   }
 
-  it("type-checks the bench's snippet and the README example, and rejects a wrong path or body against the installed types (import and require)", async () => {
+  it("type-checks the bench's snippets (POST and GET) and the README example, and rejects a wrong path or body against the installed types (import and require)", async () => {
     const snippet = clientSnippet({ method: "POST", path: "/encode", input: { code: { family: "hamming", r: 3 }, messages: ["1011"] }, origin: "https://paritas.example" });
     expect(snippet).toContain(`from "@paritas/client"`);
     const declareProcess = "declare const process: { env: Record<string, string | undefined> };";
@@ -144,6 +144,8 @@ describe("@paritas/client package", () => {
         `void count;`,
       ].join("\n"),
     );
+    const getSnippet = clientSnippet({ method: "GET", path: "/usage", input: { from: "2026-11-01", limit: 50 }, origin: "https://paritas.example" });
+    writeFileSync(join(scratch, "snippet-get.ts"), `${declareProcess}\n${getSnippet}`);
     // The package README's example, as a reader would paste it.
     const example = /```ts\n([\s\S]*?)```/.exec(readFileSync(join(repo, "packages/client/README.md"), "utf8"))?.[1];
     expect(example).toContain("createParitasClient");
@@ -164,7 +166,7 @@ describe("@paritas/client package", () => {
       join(scratch, "tsconfig.json"),
       JSON.stringify({
         compilerOptions: { target: "es2022", lib: ["es2022", "dom"], types: [], module: "nodenext", moduleResolution: "nodenext", strict: true, noEmit: true },
-        files: ["snippet.ts", "readme.ts", "required.cts"],
+        files: ["snippet.ts", "snippet-get.ts", "readme.ts", "required.cts"],
       }),
     );
     const result = await run(process.execPath, [rootTsc, "-p", "tsconfig.json"], { cwd: scratch }).catch((e: { stdout: string }) => e);
