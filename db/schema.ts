@@ -78,6 +78,44 @@ export interface ApiKeyTable {
   purpose: ColumnType<KeyPurpose, KeyPurpose | undefined, KeyPurpose>;
 }
 
+export type JobStatus = "queued" | "running" | "done" | "cancelled" | "failed";
+
+export interface JobTable {
+  /** Public id, e.g. "sim-4k2m…" (lib/jobs/ids.ts). */
+  id: string;
+  org_id: number;
+  api_key_id: number | null;
+  /** Which runner code handles it (lib/jobs/kinds.ts). */
+  kind: string;
+  /** The validated request, JSON. */
+  input: string;
+  status: JobStatus;
+  /** Why it failed or was cancelled, in words for the caller. */
+  reason: string | null;
+  /** JSON written by the runner at least every second while it runs. */
+  progress: string | null;
+  result: string | null;
+  /** Compute units charged so far (for the chunks run). */
+  units: ColumnType<number, number | undefined, number>;
+  /** How many times a runner has claimed it (a crash and resume adds one). */
+  attempts: ColumnType<number, number | undefined, number>;
+  lease_holder: string | null;
+  /** A running job whose lease has passed goes back to any runner (its runner stopped). */
+  lease_expires_at: Timestamp | null;
+  cancel_requested_at: Timestamp | null;
+  created_at: Timestamp;
+  started_at: Timestamp | null;
+  updated_at: Timestamp;
+  finished_at: Timestamp | null;
+}
+
+export interface JobChunkTable {
+  job_id: string;
+  point: number;
+  chunk: number;
+  counts: string;
+}
+
 export interface UsageEventTable {
   id: Generated<number>;
   org_id: number;
@@ -128,6 +166,8 @@ export interface Database {
   users: UserTable;
   memberships: MembershipTable;
   api_keys: ApiKeyTable;
+  jobs: JobTable;
+  job_chunks: JobChunkTable;
   usage_events: UsageEventTable;
   idempotency_records: IdempotencyRecordTable;
   audit_log: AuditLogTable;
@@ -149,3 +189,6 @@ export type IdempotencyRecord = Selectable<IdempotencyRecordTable>;
 export type AuditEntry = Selectable<AuditLogTable>;
 export type NewAuditEntry = Insertable<AuditLogTable>;
 export type Invitation = Selectable<InvitationTable>;
+
+export type Job = Selectable<JobTable>;
+export type NewJob = Insertable<JobTable>;

@@ -3,6 +3,7 @@ import * as m0001 from "./0001_initial";
 import * as m0002 from "./0002_console";
 import * as m0003 from "./0003_idempotency_lease";
 import * as m0004 from "./0004_bench_credentials";
+import * as m0005 from "./0005_jobs";
 
 /** Static list: Kysely's file-system provider cannot find migrations inside a Next.js build. */
 export const migrations: Record<string, Migration> = {
@@ -10,4 +11,5 @@ export const migrations: Record<string, Migration> = {
   "0002_console": m0002,
   "0003_idempotency_lease": m0003,
   "0004_bench_credentials": m0004,
+  "0005_jobs": m0005,
 };

@@ -1,0 +1,73 @@
+import type { Db } from "@/db";
+import { claimJob, finishJob, insertJob, insertJobChunk, listJobChunks, releaseJob, renewJob } from "@/db/queries/jobs";
+
+/** A job as a runner receives it: its input and the chunks already folded (a resumed job continues after them). */
+export interface ClaimedJob {
+  id: string;
+  orgId: number;
+  apiKeyId: number | null;
+  kind: string;
+  input: unknown;
+  attempts: number;
+  chunks: { point: number; chunk: number; counts: unknown }[];
+}
+
+export interface JobEnd {
+  status: "done" | "cancelled" | "failed";
+  result?: unknown;
+  progress?: unknown;
+  reason?: string;
+  units: number;
+}
+
+/**
+ * Where jobs wait and how a runner takes them. A runner talks only to this, never to a table, so runners
+ * on other machines can share one queue; the one implementation today is the database's `jobs` table.
+ * A claim carries a lease that the holder renews; a job whose lease passes goes back to any runner.
+ */
+export interface JobQueue {
+  enqueue(job: { id: string; orgId: number; apiKeyId: number | null; kind: string; input: unknown }): Promise<void>;
+  claim(holder: string, leaseMs: number): Promise<ClaimedJob | null>;
+  /** Renew the lease and write progress: `held` false when another runner has the job now. */
+  heartbeat(id: string, holder: string, leaseMs: number, progress?: unknown): Promise<{ held: boolean; cancelRequested: boolean }>;
+  /** Record a chunk folded into its point; false when the holder lost the job. */
+  saveChunk(id: string, holder: string, point: number, chunk: number, counts: unknown): Promise<boolean>;
+  finish(id: string, holder: string, end: JobEnd): Promise<boolean>;
+  /** Give the job back (the runner stops): it waits for the next claim. */
+  release(id: string, holder: string): Promise<void>;
+}
+
+const iso = (ms: number) => new Date(ms).toISOString();
+
+export function databaseQueue(db: Db): JobQueue {
+  return {
+    async enqueue(job) {
+      const now = iso(Date.now());
+      await insertJob(db, { id: job.id, org_id: job.orgId, api_key_id: job.apiKeyId, kind: job.kind, input: JSON.stringify(job.input), status: "queued", created_at: now, updated_at: now });
+    },
+    async claim(holder, leaseMs) {
+      const t = Date.now();
+      const row = await claimJob(db, holder, iso(t), iso(t + leaseMs));
+      if (!row) return null;
+      const chunks = (await listJobChunks(db, row.id)).map((c) => ({ point: c.point, chunk: c.chunk, counts: JSON.parse(c.counts) as unknown }));
+      return { id: row.id, orgId: row.org_id, apiKeyId: row.api_key_id, kind: row.kind, input: JSON.parse(row.input) as unknown, attempts: row.attempts, chunks };
+    },
+    async heartbeat(id, holder, leaseMs, progress) {
+      const t = Date.now();
+      const row = await renewJob(db, id, holder, iso(t), iso(t + leaseMs), progress === undefined ? undefined : JSON.stringify(progress));
+      return { held: Boolean(row), cancelRequested: Boolean(row?.cancel_requested_at) };
+    },
+    saveChunk: (id, holder, point, chunk, counts) => insertJobChunk(db, id, holder, point, chunk, JSON.stringify(counts)),
+    finish: (id, holder, end) =>
+      finishJob(db, id, holder, iso(Date.now()), {
+        status: end.status,
+        units: end.units,
+        reason: end.reason,
+        result: end.result === undefined ? undefined : JSON.stringify(end.result),
+        progress: end.progress === undefined ? undefined : JSON.stringify(end.progress),
+      }),
+    async release(id, holder) {
+      await releaseJob(db, id, holder, iso(Date.now()));
+    },
+  };
+}
