@@ -29,6 +29,11 @@ export function ProblemView({ problem, compact = false }: { problem: ProblemBody
               </span>
             </li>
           ))}
+          {problem.omittedErrors ? (
+            <li className="text-ink-2">
+              …and {problem.omittedErrors.toLocaleString("en")} more {problem.omittedErrors === 1 ? "field error" : "field errors"} not listed; fix these and send again to see them.
+            </li>
+          ) : null}
         </ul>
       ) : null}
       {!compact && (problem.instance || typeLink) ? (

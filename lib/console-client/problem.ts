@@ -11,6 +11,8 @@ export interface ProblemBody {
   detail?: string;
   instance?: string;
   errors?: FieldProblem[];
+  /** Field errors beyond those listed (the API lists at most 20). */
+  omittedErrors?: number;
 }
 
 /** The one error the console's fetcher throws: an HTTP failure described as problem details. */
