@@ -27,7 +27,7 @@ describe("typed client", () => {
     expect(error).toBeUndefined();
     expect(response.status).toBe(200);
     // C_BSC(0.11) ≈ 0.500 (REFERENCES.md, Shannon 1948).
-    expect(data!.capacity.value).toBeCloseTo(0.5, 3);
+    expect(data!.capacity!.value).toBeCloseTo(0.5, 3);
   });
 
   it("returns the problem body as `error` on a 422", async () => {
