@@ -129,6 +129,7 @@ export function switchVariant(u: UnionSpec, current: unknown, variant: string, e
 
 /** The field's JSON text for an object: on one line while short enough to read at a glance, else indented. */
 export function pickerText(value: Obj): string {
-  const flat = JSON.stringify(value);
-  return flat.length <= 60 ? flat : JSON.stringify(value, null, 2);
+  // Line breaks come only from the indentation: JSON writes those inside strings as \n.
+  const flat = JSON.stringify(value, null, 1).replace(/\n\s*/g, " ");
+  return flat.length <= 72 ? flat : JSON.stringify(value, null, 2);
 }

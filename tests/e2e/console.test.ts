@@ -291,6 +291,78 @@ describe("console in a browser", { timeout: 90_000 }, () => {
     });
   });
 
+  test.each([
+    ["desktop", DESKTOP],
+    ["phone", PHONE],
+  ] as const)(
+    "at %s width the bench picks a code by family and parameters, keeps its JSON in step, and marks the corrected positions of a decode",
+    async (_w, viewport) => {
+      await inSession(
+        async (s) => {
+          const { page } = s;
+          await signInWithPassword(e2e, page, DEVELOPER.email, DEMO_PASSWORD);
+          await page.goto(`${e2e.baseUrl}/console/${ORG}/try`);
+          await page.getByRole("heading", { level: 1, name: "Try the endpoints" }).waitFor();
+          if (viewport === PHONE) await page.getByLabel("Endpoint", { exact: true }).selectOption({ label: "POST /decode" });
+          else await page.getByRole("navigation", { name: "Endpoints" }).getByRole("button", { name: "POST /decode" }).click();
+          await page.getByRole("heading", { name: "POST /api/v1/decode" }).waitFor();
+
+          const form = page.getByRole("form", { name: "Request" });
+          const code = form.getByRole("group", { name: /^code/ });
+          // BCH (15,7), t = 2 (m = 4): the family first, then its parameters, each labelled with its limits.
+          await code.getByLabel(/^family/).selectOption("bch");
+          await code.getByLabel(/^m\s*integer/).fill("4");
+          await code.getByLabel(/^t\s*integer/).fill("2");
+          expect(await code.getByText(/Range: 3 to 16\./).count()).toBe(1);
+          expect(await code.innerText()).not.toContain("9007199254740991");
+          // The JSON follows the fields…
+          await code.getByText("Edit code as JSON").click();
+          const json = code.getByLabel("code as JSON");
+          expect(JSON.parse(await json.inputValue())).toEqual({ family: "bch", m: 4, t: 2 });
+          // …JSON that does not parse is reported and left as typed…
+          await json.fill('{ "family": "bch", "m": 4, "t": ');
+          await code.getByRole("status").filter({ hasText: "The JSON does not parse" }).waitFor();
+          expect(await json.inputValue()).toBe('{ "family": "bch", "m": 4, "t": ');
+          // …the fields follow the JSON once it does, and the JSON the fields.
+          await json.fill('{ "family": "bch", "m": 4, "t": 3 }');
+          await expect.poll(() => code.getByLabel(/^t\s*integer/).inputValue()).toBe("3");
+          expect(await code.getByRole("status").count()).toBe(0);
+          await code.getByLabel(/^t\s*integer/).fill("2");
+          expect(JSON.parse(await json.inputValue())).toEqual({ family: "bch", m: 4, t: 2 });
+
+          // The zero codeword with errors at positions 2 and 5.
+          await form.getByLabel(/^words/).fill('["001001000000000"]');
+          await form.getByRole("button", { name: "Run with a test key" }).click();
+          const decoded = page.getByRole("region", { name: /^Decoded words/ });
+          await decoded.waitFor();
+          expect(await decoded.getByText("corrected positions: 2, 5").count()).toBe(1);
+          const word = decoded.locator('[data-decoded-word="0"]');
+          // Marked in the received and the corrected rows alike, by a box and an underline, not by colour alone.
+          const marked = await word.locator("[data-corrected]").evaluateAll((els) =>
+            // Only the layout shown at this width (narrow screens get shorter column groups).
+            els.filter((el) => el.getClientRects().length > 0).map((el) => {
+              const st = getComputedStyle(el);
+              return { p: Number(el.getAttribute("data-position")), text: el.textContent, underline: st.textDecorationLine, outline: st.outlineStyle };
+            }),
+          );
+          expect(marked.map((m) => m.p)).toEqual([2, 5, 2, 5]);
+          expect(marked.map((m) => m.text)).toEqual(["1", "1", "0", "0"]);
+          for (const m of marked) {
+            expect(m.underline).toContain("underline");
+            expect(m.outline).not.toBe("none");
+          }
+          await settle(page);
+          expect(await layoutProblems(page)).toEqual([]);
+          await decoded.scrollIntoViewIfNeeded();
+          await capture(page, `try-decode-${viewport.width}`);
+          await code.scrollIntoViewIfNeeded();
+          await capture(page, `try-code-picker-${viewport.width}`);
+        },
+        { viewport },
+      );
+    },
+  );
+
   test("an owner invites a new address, which signs up by link and joins", async () => {
     const invitee = "kai.moreau@tidewater.example";
     let inviteLink = "";

@@ -184,3 +184,12 @@ describe("fields and JSON stay in sync", () => {
     expect(decode.input.parse(sent.data)).toEqual({ code: { family: "bch", m: 4, t: 2, shorten: 0 }, words: ["000000000000000"] });
   });
 });
+
+describe("the JSON the picker writes", () => {
+  test("short objects on one line, longer ones indented; either reads back as the same object", () => {
+    expect(pickerText({ family: "bch", m: 4, t: 2 })).toBe('{ "family": "bch", "m": 4, "t": 2 }');
+    const long = { family: "linear", generator: ["1000111", "0100110", "0010101", "0001011"], note: "a\nb" };
+    expect(pickerText(long)).toContain("\n  ");
+    for (const v of [{ family: "bch", m: 4, t: 2 }, long, { family: "crc", preset: "x\ny" }]) expect(JSON.parse(pickerText(v))).toEqual(v);
+  });
+});

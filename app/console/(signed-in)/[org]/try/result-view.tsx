@@ -4,8 +4,10 @@ import { CodePanel } from "@/components/console/code-panel";
 import { ProblemView } from "@/components/console/problem-view";
 import { panel } from "@/components/console/ui";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
+import { decodeLayout } from "@/lib/console-client/decode-rows";
 import { isProblemBody } from "@/lib/console-client/problem";
 import { clientSnippet, curlCommand } from "@/lib/console-client/snippets";
+import { DecodeView } from "./decode-view";
 import { highlightJson } from "./json-view";
 import type { RunResult } from "./run";
 
@@ -40,6 +42,7 @@ export function ResultView({ result, origin }: { result: RunResult; origin: stri
   const headers = new Map(result.headers);
   const notable = NOTABLE.filter((h) => headers.has(h));
   const request = { method: result.method, path: result.path, input: result.input, origin };
+  const decoded = result.path === "/decode" && result.status === 200 ? decodeLayout(result.input, result.body) : null;
 
   return (
     <section aria-labelledby="result-heading" className="flex flex-col gap-4">
@@ -88,6 +91,8 @@ export function ResultView({ result, origin }: { result: RunResult; origin: stri
           <ProblemView problem={problem} />
         </div>
       ) : null}
+
+      {decoded ? <DecodeView layout={decoded} /> : null}
 
       <CodePanel label={problem ? "problem+json" : "response"} text={text} maxHeight="28rem">
         {typeof result.body === "string" ? drawn : highlightJson(drawn)}
