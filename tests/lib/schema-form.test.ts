@@ -48,11 +48,11 @@ describe("every documented example, through the generated form", () => {
 });
 
 describe("numeric ranges", () => {
-  test("an exclusive lower end stays exclusive: rate > 0, ≤ 16 on the AWGN channel", () => {
-    const rate = field(capacity, "awgn", "rate");
+  test("an exclusive lower end stays exclusive: rate > 0, ≤ 1 on the BSC", () => {
+    const rate = field(capacity, "bsc", "rate");
     expect(rate.minimum).toEqual({ value: 0, exclusive: true });
-    expect(rate.maximum).toEqual({ value: 16, exclusive: false });
-    expect(rangeHint(rate)).toBe("above 0, at most 16");
+    expect(rate.maximum).toEqual({ value: 1, exclusive: false });
+    expect(rangeHint(rate)).toBe("above 0, at most 1");
   });
 
   test("both ends exclusive: BPSK rate in (0, 1)", () => {
@@ -67,13 +67,13 @@ describe("numeric ranges", () => {
   });
 
   test("the form refuses the excluded end and accepts the included one", () => {
-    const { plan, fields, schema } = formFor(capacity, "awgn");
-    const values = (rate: string) => ({ ...valuesFor(plan, fields, { channel: "awgn", ebN0Db: 3 }, "awgn"), rate });
+    const { plan, fields, schema } = formFor(capacity, "bsc");
+    const values = (rate: string) => ({ ...valuesFor(plan, fields, { channel: "bsc", p: 0.11 }, "bsc"), rate });
     const atZero = schema.safeParse(values("0"));
     expect(atZero.success).toBe(false);
     expect(atZero.error!.issues.map((i) => i.path[0])).toContain("rate");
-    expect(schema.safeParse(values("16")).success).toBe(true);
-    expect(schema.safeParse(values("16.0001")).success).toBe(false);
+    expect(schema.safeParse(values("1")).success).toBe(true);
+    expect(schema.safeParse(values("1.0001")).success).toBe(false);
   });
 
   test("when a schema gives both keywords for one end, the tighter one binds", () => {
