@@ -3,7 +3,8 @@ import { z } from "zod";
 /**
  * From an endpoint's input JSON Schema to a form: one field per top-level property
  * (number/integer inputs, enums as selects, booleans as checkboxes, strings as text; arrays,
- * objects and unions as JSON text), and a zod schema that turns the form's values into the
+ * objects and unions as JSON text, a union told apart by one property also with the model of a
+ * structured picker, see union-picker.ts), and a zod schema that turns the form's values into the
  * request and checks it against z.fromJSONSchema of the same JSON Schema.
  */
 

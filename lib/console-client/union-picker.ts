@@ -133,3 +133,31 @@ export function pickerText(value: Obj): string {
   const flat = JSON.stringify(value, null, 1).replace(/\n\s*/g, " ");
   return flat.length <= 72 ? flat : JSON.stringify(value, null, 2);
 }
+
+/**
+ * Problems with the field ("/code/t: …", as the form's check and the server's field pointers write
+ * them) split by the parameter they point into, so each shows at its own input; the rest as they came.
+ * A problem at the parameter itself loses its pointer; one deeper inside keeps it. Only `names` (the
+ * parameters on screen) get their own; a problem with any other property stays with the field.
+ */
+export function messagesByPart(field: string, messages: readonly string[], names: readonly string[]): { parts: Record<string, string[]>; rest: string[] } {
+  const parts: Record<string, string[]> = {};
+  const rest: string[] = [];
+  const prefix = `/${field.replace(/~/g, "~0").replace(/\//g, "~1")}/`;
+  for (const m of messages) {
+    const colon = m.indexOf(": ");
+    const pointer = colon > 0 ? m.slice(0, colon) : "";
+    if (!pointer.startsWith(prefix)) {
+      rest.push(m);
+      continue;
+    }
+    const [head = "", ...deeper] = pointer.slice(prefix.length).split("/");
+    const name = head.replace(/~1/g, "/").replace(/~0/g, "~");
+    if (!names.includes(name)) {
+      rest.push(m);
+      continue;
+    }
+    (parts[name] ??= []).push(deeper.length ? m : m.slice(colon + 2));
+  }
+  return { parts, rest };
+}

@@ -10,7 +10,7 @@ import { decode } from "@/lib/api/endpoints/decode";
 import { endpointCatalogue } from "@/lib/console/account";
 import { activeFields, bodySchemaOf, buildFormSchema, planForm, rangeHint, valuesFor, type FieldSpec, type UnionSpec } from "@/lib/console-client/schema-form";
 import type { EndpointInfo } from "@/lib/console-client/types";
-import { displayValue, pickerText, readPicker, switchVariant, withField } from "@/lib/console-client/union-picker";
+import { displayValue, messagesByPart, pickerText, readPicker, switchVariant, withField } from "@/lib/console-client/union-picker";
 import { buildOpenApiDocument } from "@/openapi/document";
 
 const catalogue = endpointCatalogue() as EndpointInfo[];
@@ -191,5 +191,24 @@ describe("the JSON the picker writes", () => {
     const long = { family: "linear", generator: ["1000111", "0100110", "0010101", "0001011"], note: "a\nb" };
     expect(pickerText(long)).toContain("\n  ");
     for (const v of [{ family: "bch", m: 4, t: 2 }, long, { family: "crc", preset: "x\ny" }]) expect(JSON.parse(pickerText(v))).toEqual(v);
+  });
+});
+
+describe("problems shown at the parameter they point into", () => {
+  test("RFC 6901 pointers into the field go to their parameter on screen; others stay with the field", () => {
+    const { parts, rest } = messagesByPart("code", [
+      "/code/t: `t` must be a whole number from 1 to 2^(m−1) − 1; got 9.",
+      "/code/generator/2: not a row of bits",
+      "/code: Give exactly one of `generator` and `parityCheck`.",
+      "Required.",
+      "/codes/x: another field",
+      "/code/r: Unknown field `r`.",
+    ], ["t", "generator", "m"]);
+    expect(parts).toEqual({ t: ["`t` must be a whole number from 1 to 2^(m−1) − 1; got 9."], generator: ["/code/generator/2: not a row of bits"] });
+    expect(rest).toEqual(["/code: Give exactly one of `generator` and `parityCheck`.", "Required.", "/codes/x: another field", "/code/r: Unknown field `r`."]);
+  });
+
+  test("escaped names (~1 for /, ~0 for ~) are read back", () => {
+    expect(messagesByPart("a/b", ["/a~1b/x~0y: bad"], ["x~y"]).parts).toEqual({ "x~y": ["bad"] });
   });
 });

@@ -5,7 +5,7 @@ import { useWatch, type Control, type UseFormRegister, type UseFormSetValue } fr
 import { InlineCode } from "@/components/inline-code";
 import { errorText, hintBase, inputBase, selectBase } from "@/components/console/ui";
 import { optionValue, rangeHint, type FieldSpec, type FormValues, type UnionSpec } from "@/lib/console-client/schema-form";
-import { pickerText, readPicker, switchVariant, withField } from "@/lib/console-client/union-picker";
+import { messagesByPart, pickerText, readPicker, switchVariant, withField } from "@/lib/console-client/union-picker";
 
 function SubField({ f, id, value, onChange, error }: { f: FieldSpec; id: string; value: string | boolean; onChange: (v: string | boolean) => void; error?: string }) {
   const hintId = `${id}-hint`;
@@ -183,9 +183,17 @@ export function UnionField({
     write(r.value, values, errors);
   }
 
+  // Problems inside the code show at the parameter they name; the rest under the whole field.
+  const shownParts = current?.fields.map((x) => x.name) ?? [];
+  const checked = messagesByPart(f.name, error ? error.split(" · ") : [], shownParts);
+  const answered = messagesByPart(f.name, server ?? [], shownParts);
+  const partError = (name: string) =>
+    [drafts.errors[name], ...(checked.parts[name] ?? []), ...(answered.parts[name] ?? []).map((m) => `Server: ${m}`)].filter(Boolean).join(" · ") || undefined;
+  const ownError = checked.rest.join(" · ") || undefined;
+  const ownServer = answered.rest;
   const statusId = `${id}-status`;
   const errId = `${id}-err`;
-  const invalid = Boolean(error || server?.length);
+  const invalid = Boolean(ownError || ownServer.length);
   return (
     <fieldset className="min-w-0 rounded-md border border-rule p-3" aria-describedby={invalid ? errId : undefined}>
       <legend className="px-1 text-sm font-medium">
@@ -231,7 +239,7 @@ export function UnionField({
         ) : null}
         {read.ok && read.variant === undefined ? (
           <p role="status" className="rounded-md border border-caution-rule bg-caution-bg px-3 py-2 text-xs text-caution-ink">
-            The JSON&apos;s <code className="font-mono">{union.discriminator}</code> is not one of the listed values; choose one above (the other properties stay).
+            The JSON&apos;s <code className="font-mono">{union.discriminator}</code> is not one of the listed values; choose one above.
           </p>
         ) : null}
         {current && current.fields.length > 0 ? (
@@ -244,7 +252,7 @@ export function UnionField({
                 id={`${id}-${current.value}-${sub.name}`}
                 value={drafts.values[sub.name] ?? (sub.kind === "boolean" ? false : "")}
                 onChange={(v) => change(sub, v)}
-                error={drafts.errors[sub.name]}
+                error={partError(sub.name)}
               />
             ))}
           </fieldset>
@@ -272,11 +280,11 @@ export function UnionField({
         </details>
         {invalid ? (
           <p id={errId} className={errorText}>
-            {error ?? null}
-            {server?.length ? (
+            {ownError ?? null}
+            {ownServer.length ? (
               <>
-                {error ? <br /> : null}
-                Server: {server.join(" · ")}
+                {ownError ? <br /> : null}
+                Server: {ownServer.join(" · ")}
               </>
             ) : null}
           </p>
