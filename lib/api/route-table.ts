@@ -39,6 +39,7 @@ export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/v1/distance": ["POST"],
   "/api/v1/encode": ["POST"],
   "/api/v1/links/ber": ["POST"],
+  "/api/v1/tests/plan": ["POST"],
   "/api/v1/openapi.json": ["GET"],
   "/api/v1/usage": ["GET"],
 };
