@@ -346,13 +346,44 @@ function tableRun(code: BlockCode, channel: SimChannel, gap: boolean): Run {
       }
     };
   }
+  const nMask = (1 << n) - 1;
   return (g, pt, frames, c) => {
     const events = new BernoulliBits(g, pt.p);
-    const coins = new CoinBits(g);
+    // Unused bits of the last event, message and coin words, in locals: this is the hottest loop.
+    let ew = 0,
+      eAvail = 0,
+      mw = 0,
+      mAvail = 0,
+      cw = 0,
+      cAvail = 0;
     for (let f = 0; f < frames; f++) {
-      const m = coins.take(k);
-      let e = events.take(n);
-      if (bec) e &= coins.take(n);
+      if (mAvail < k) {
+        mw = g.next();
+        mAvail = 32;
+      }
+      const m = mw & kMask;
+      mw >>>= k;
+      mAvail -= k;
+      let e: number;
+      if (eAvail >= n) {
+        e = ew & nMask;
+        ew >>>= n;
+        eAvail -= n;
+      } else {
+        const w = events.nextWord();
+        e = (ew | (w << eAvail)) & nMask;
+        ew = w >>> (n - eAvail);
+        eAvail += 32 - n;
+      }
+      if (bec) {
+        if (cAvail < n) {
+          cw = g.next();
+          cAvail = 32;
+        }
+        e &= cw;
+        cw >>>= n;
+        cAvail -= n;
+      }
       const d = dec[enc[m]! ^ e]!;
       if (((d ^ m) & kMask) | (d & FAILURE_FLAG)) tally(c, d, m, kMask);
     }

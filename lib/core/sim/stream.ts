@@ -109,7 +109,8 @@ export function binaryDigits(p: number): Uint8Array {
 export class BernoulliBits {
   private word = 0;
   private avail = 0;
-  private readonly digits: Uint8Array;
+  /** p's digits as masks: 0 for a 0 digit, −1 (all lanes) for a 1. */
+  private readonly digits: Int32Array;
   private readonly all: boolean;
 
   constructor(
@@ -117,22 +118,30 @@ export class BernoulliBits {
     p: number,
   ) {
     this.all = p >= 1;
-    this.digits = p > 0 && p < 1 ? binaryDigits(p) : new Uint8Array(0);
+    this.digits = p > 0 && p < 1 ? Int32Array.from(binaryDigits(p), (d) => -d) : new Int32Array(0);
   }
 
   /** 32 fresh Bernoulli(p) bits. */
   nextWord(): number {
     if (this.all) return -1;
-    const digits = this.digits;
+    const { digits, g } = this;
+    const L = digits.length;
     let undecided = -1;
     let out = 0;
-    for (let i = 0; i < digits.length; i++) {
-      const r = this.g.next();
-      if (digits[i] === 1) {
-        out |= undecided & ~r;
-        undecided &= r;
-      } else undecided &= ~r;
-      if (undecided === 0) break;
+    let i = 0;
+    // Branch-free steps: a lane whose digit r differs from p's digit d is decided (r < d: U < p); one
+    // that matches stays open. 32 lanes are rarely all decided within 4 digits, so those 4 go untested.
+    for (; i < 4 && i < L; i++) {
+      const r = g.next();
+      const d = digits[i]!;
+      out |= undecided & ~r & d;
+      undecided &= ~(r ^ d);
+    }
+    for (; undecided !== 0 && i < L; i++) {
+      const r = g.next();
+      const d = digits[i]!;
+      out |= undecided & ~r & d;
+      undecided &= ~(r ^ d);
     }
     return out;
   }
