@@ -31,8 +31,9 @@ describe("POST /tests/plan: bad input", () => {
     ["trueBerFraction 0", { ...ok, trueBerFraction: 0 }, "/trueBerFraction"],
     ["trueBerFraction over 10", { ...ok, trueBerFraction: 11 }, "/trueBerFraction"],
     ["an unknown field", { ...ok, errors: 2 }, "/errors"],
-  ])("%s → 422 at the field", async (_name, body, pointer) => {
-    expectFieldError(await call(body), pointer);
+  ])("%s → 422 at the field, stating the field's rule", async (_name, body, pointer) => {
+    const field = pointer.slice(1);
+    expectFieldError(await call(body), pointer, field === "errors" ? /Unknown field `errors`/ : new RegExp(`^\`${field}\` must be `));
   });
 
   it("a true BER above 0.5 (trueBerFraction × targetBer) → 422 saying what the product is", async () => {

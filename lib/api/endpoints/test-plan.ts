@@ -7,36 +7,47 @@ export const MAX_PLAN_ERRORS = 100;
 export const MIN_TARGET_BER = 1e-13;
 export const MAX_CONFIDENCE = 0.999999;
 
+/** A field's rule in our words, given for every way the value can break it (wrong type, out of range, not whole). */
+const rule = (field: string, text: string) => ({ error: `\`${field}\` must be ${text}.` });
+const TARGET_RULE = rule("targetBer", `a BER from ${MIN_TARGET_BER} to below 0.5`);
+const CONFIDENCE_RULE = rule("confidence", `a fraction from 0.5 to ${MAX_CONFIDENCE}, e.g. 0.95 for 95 %`);
+const ERRORS_RULE = rule("maxErrors", `a whole number of errors from 0 to ${MAX_PLAN_ERRORS}`);
+const RATE_RULE = rule("lineRateBps", "a line rate in bit/s from 1 to 1e13");
+const FRACTION_RULE = rule("trueBerFraction", "a multiple of the target above 0 and at most 10");
+
 const input = z
   .strictObject({
     targetBer: z
-      .number()
-      .min(MIN_TARGET_BER)
-      .lt(0.5)
+      .number(TARGET_RULE)
+      .min(MIN_TARGET_BER, TARGET_RULE)
+      .lt(0.5, TARGET_RULE)
       .meta({ description: `The BER the test is to demonstrate, from ${MIN_TARGET_BER} to below 0.5 (common targets: voice about 1e-3, data 1e-5 to 1e-6, optical fibre 1e-9 or lower).` }),
     confidence: z
-      .number()
-      .min(0.5)
-      .max(MAX_CONFIDENCE)
+      .number(CONFIDENCE_RULE)
+      .min(0.5, CONFIDENCE_RULE)
+      .max(MAX_CONFIDENCE, CONFIDENCE_RULE)
       .meta({ description: `Confidence level as a fraction, from 0.5 to ${MAX_CONFIDENCE} (0.95 for 95 %).` }),
     maxErrors: z
-      .number()
-      .int()
-      .min(0)
-      .max(MAX_PLAN_ERRORS)
+      .number(ERRORS_RULE)
+      .int(ERRORS_RULE)
+      .min(0, ERRORS_RULE)
+      .max(MAX_PLAN_ERRORS, ERRORS_RULE)
       .default(0)
       .meta({ description: `Plans are given for a test allowing 0, 1, …, maxErrors errors (at most ${MAX_PLAN_ERRORS}); 0 when left out.` }),
-    onlyMaxErrors: z.boolean().default(false).meta({ description: "true: give only the plan allowing exactly `maxErrors` errors." }),
+    onlyMaxErrors: z
+      .boolean(rule("onlyMaxErrors", "true or false"))
+      .default(false)
+      .meta({ description: "true: give only the plan allowing exactly `maxErrors` errors." }),
     lineRateBps: z
-      .number()
-      .min(1)
-      .max(1e13)
+      .number(RATE_RULE)
+      .min(1, RATE_RULE)
+      .max(1e13, RATE_RULE)
       .optional()
       .meta({ description: "Line rate in bit/s, from 1 to 1e13: adds each plan's test time in seconds and in words." }),
     trueBerFraction: z
-      .number()
-      .gt(0)
-      .max(10)
+      .number(FRACTION_RULE)
+      .gt(0, FRACTION_RULE)
+      .max(10, FRACTION_RULE)
       .optional()
       .meta({
         description:
