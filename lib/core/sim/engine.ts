@@ -19,7 +19,8 @@ import { BernoulliBits, chunkStream, CoinBits, geometricGap, Normals, type Strea
  *   Gray QPSK carries two bits on the in-phase and quadrature dimensions with Es = 2·R·Eb, so each bit
  *   sees the same per-dimension SNR and the same channel LLR 2y/σ² as BPSK (Proakis & Salehi 2008, §4.3).
  *   Consecutive channel bits pair into QPSK symbols, and the polar method's normals come in pairs, one per
- *   dimension. Hard decisions: bit = [y < 0], then the code's hard decoder. Soft decisions: maximum
+ *   dimension — so for one seed BPSK and Gray QPSK give the same counts, as they must in distribution.
+ *   Hard decisions: bit = [y < 0], then the code's hard decoder. Soft decisions: maximum
  *   likelihood by correlation, the codeword maximising Σ_j LLR_j·(1 − 2c_j) over all 2^k codewords
  *   (binary codes with k ≤ 12; uncoded: the sign of each LLR).
  *
@@ -28,7 +29,7 @@ import { BernoulliBits, chunkStream, CoinBits, geometricGap, Normals, type Strea
  * distribution (./stream.ts geometricGap). Frames without an event are never built: a word received
  * without error is a codeword, and every decoder here — syndrome decoders (Hamming, Golay, BCH, linear,
  * repetition, parity), the CRC check, and Reed–Solomon errors-and-erasures decoding — returns a codeword
- * unchanged with no failure (tests/unit/sim-engine.test.ts checks this for every family), so such a
+ * unchanged with no failure (tests/unit/sim-repro.test.ts checks this for every family), so such a
  * frame adds one frame and k information bits and nothing else. Cost then grows with the number of
  * events, not bits. With gap skipping off, every channel bit is drawn (BernoulliBits, bit-sliced).
  *
@@ -132,7 +133,11 @@ function isU32(v: number) {
   return Number.isInteger(v) && v >= 0 && v <= 0xffffffff;
 }
 
-/** Check a spec once and return its simulator (the kernels themselves check nothing). */
+/**
+ * Check a spec once and return its simulator (the kernels themselves check nothing). Building one costs
+ * up to 2^16 decodes (table kernel) or 2^12 encodes (ML kernel): build it once per request and reuse it
+ * for every chunk.
+ */
 export function createSimulator(spec: SimSpec): Simulator {
   const { code, channel, points } = spec;
   if (!isU32(spec.seed)) throw new InputError(`seed must be an integer from 0 to 2^32 − 1; got ${spec.seed}`, ["seed"]);
