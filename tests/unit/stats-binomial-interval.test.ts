@@ -38,6 +38,18 @@ describe("Clopper–Pearson bounds", () => {
     expect(Math.abs(binomialCdf(k, n, u) - (1 - cl))).toBeLessThan(1e-8);
   });
 
+  it.each([
+    [1e6, 1e12],
+    [1e9, 1e12],
+    [5e11, 1e12],
+    [123_456, 1e15],
+  ])("many errors (%d in %d): one-sided 95 %% bounds agree with the Wilson 90 %% interval within 1 %% of its half-width (both tend to the normal interval as k grows; DeMoivre–Laplace)", (k, n) => {
+    const w = wilson(k, n, 0.9);
+    const half = (w.upper - w.lower) / 2;
+    expect(Math.abs(clopperPearsonUpper(k, n, 0.95) - w.upper)).toBeLessThan(0.01 * half);
+    expect(Math.abs(clopperPearsonLower(k, n, 0.95) - w.lower)).toBeLessThan(0.01 * half);
+  });
+
   it("k = n: upper bound 1, lower bound (1 − CL)^(1/n) (the mirror of the k = 0 closed form)", () => {
     expect(clopperPearsonUpper(100, 100, 0.95)).toBe(1);
     expect(rel(clopperPearsonLower(100, 100, 0.95), 0.05 ** (1 / 100))).toBeLessThan(1e-14);
