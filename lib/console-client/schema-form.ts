@@ -356,3 +356,11 @@ export function bodySchemaOf(schema: Record<string, unknown>): z.ZodType | null 
     return null;
   }
 }
+
+/** A choice's text cut at a word to at most `max` characters, with "…": a select shows its choice on one line, and a phone has room for about 40. */
+export function shortLabel(text: string, max = 40): string {
+  if (text.length <= max) return text;
+  const cut = text.slice(0, max - 1);
+  const space = cut.lastIndexOf(" ");
+  return `${(space > max / 2 ? cut.slice(0, space) : cut).replace(/[\s,;:–-]+$/, "")}…`;
+}

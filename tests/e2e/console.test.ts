@@ -332,6 +332,13 @@ describe("console in a browser", { timeout: 90_000 }, () => {
 
           // The zero codeword with errors at positions 2 and 5.
           await form.getByLabel(/^words/).fill('["001001000000000"]');
+          // A t too large for m = 4 passes the browser's check; the server's problem shows at t itself.
+          const t = code.getByLabel(/^t\s*integer/);
+          await t.fill("9");
+          await form.getByRole("button", { name: "Run with a test key" }).click();
+          await expect.poll(() => t.getAttribute("aria-invalid")).toBe("true");
+          expect(await t.evaluate((el) => document.getElementById(el.getAttribute("aria-describedby")!.split(" ").pop()!)!.textContent)).toMatch(/^Server: .*t can be at most 7/);
+          await t.fill("2");
           await form.getByRole("button", { name: "Run with a test key" }).click();
           const decoded = page.getByRole("region", { name: /^Decoded words/ });
           await decoded.waitFor();
@@ -357,6 +364,19 @@ describe("console in a browser", { timeout: 90_000 }, () => {
           await capture(page, `try-decode-${viewport.width}`);
           await code.scrollIntoViewIfNeeded();
           await capture(page, `try-code-picker-${viewport.width}`);
+
+          // Symbols of GF(16) with erasures: the erased positions are told apart from the corrected ones, and still fit.
+          await page.getByLabel("Start from an example").selectOption("rsErasures");
+          // A long example name is cut in the select and shown whole beneath it.
+          await page.getByText("Example: Reed–Solomon (15,9) over GF(16) with two erasures and one error").waitFor();
+          await expect.poll(() => code.getByLabel(/^family/).inputValue()).toBe("rs");
+          await form.getByRole("button", { name: "Run with a test key" }).click();
+          const rs = page.getByRole("region", { name: /^Decoded words · Reed–Solomon/ });
+          await rs.waitFor();
+          expect(await rs.getByText("corrected positions: 0, 1, 4").count()).toBe(1);
+          expect(await rs.getByText(/erased positions: 0, 1/).count()).toBe(1);
+          await settle(page);
+          expect(await layoutProblems(page)).toEqual([]);
         },
         { viewport },
       );

@@ -9,7 +9,7 @@ import { describe, expect, test } from "vitest";
 import { z } from "zod";
 import { endpointCatalogue } from "@/lib/console/account";
 import { endpoints } from "@/lib/api/registry";
-import { activeFields, bodySchemaOf, buildFormSchema, planForm, rangeHint, valuesFor, variantOf, type FieldSpec } from "@/lib/console-client/schema-form";
+import { activeFields, bodySchemaOf, buildFormSchema, planForm, rangeHint, shortLabel, valuesFor, variantOf, type FieldSpec } from "@/lib/console-client/schema-form";
 import type { EndpointInfo } from "@/lib/console-client/types";
 
 const catalogue = endpointCatalogue() as EndpointInfo[];
@@ -93,5 +93,16 @@ describe("numeric ranges", () => {
       expect(by[name]!.minimum, name).toEqual(lo);
       expect(by[name]!.maximum, name).toEqual(hi);
     }
+  });
+});
+
+describe("example names in a select", () => {
+  test("short ones stay whole; long ones are cut at a word with an ellipsis, within 40 characters", () => {
+    expect(shortLabel("Hamming (7,4): one flipped bit")).toBe("Hamming (7,4): one flipped bit");
+    const long = "Reed–Solomon (15,9) over GF(16) with two erasures and one error";
+    expect(shortLabel(long)).toBe("Reed–Solomon (15,9) over GF(16) with…");
+    expect(shortLabel(long).length).toBeLessThanOrEqual(40);
+    // No space late enough to cut at: cut inside the word.
+    expect(shortLabel("x".repeat(50))).toBe(`${"x".repeat(39)}…`);
   });
 });

@@ -102,7 +102,8 @@ export function DecodeView({ layout }: { layout: DecodeLayout }) {
   const longest = Math.max(0, ...layout.words.map((w) => w.codeword.length));
   const digits = Math.max(widest, String(Math.max(0, longest - 1)).length);
   const cellWidth = `calc(${digits}ch + 0.375rem)`;
-  const groupSize = widest > 1 ? { narrow: 4, wide: 8 } : { narrow: 8, wide: 16 };
+  // Up to three digits, 8 columns and their labels fit 390 px; wider symbols (GF(2^16)) take 4.
+  const groupSize = digits <= 3 ? { narrow: 8, wide: 16 } : { narrow: 4, wide: 8 };
   const shown: DecodedWord[] = [];
   let positions = 0;
   for (const w of layout.words.slice(0, MAX_WORDS)) {

@@ -15,6 +15,7 @@ import {
   planForm,
   rangeHint,
   RAW_FIELD,
+  shortLabel,
   valuesFor,
   variantOf,
   type FieldSpec,
@@ -352,8 +353,8 @@ export function EndpointForm({
           </label>
           <select id={exampleId} className={`${selectBase} mt-1`} value={exampleName} onChange={(e) => pickExample(e.target.value)}>
             {names.map((n) => (
-              <option key={n} value={n}>
-                {examples[n]?.summary ?? n}
+              <option key={n} value={n} title={examples[n]?.summary ?? n}>
+                {shortLabel(examples[n]?.summary ?? n)}
               </option>
             ))}
             <option value="">— a blank form —</option>
@@ -364,6 +365,7 @@ export function EndpointForm({
           <label htmlFor={checkId}>Check in the browser first</label>
         </div>
       </div>
+      {example?.summary && shortLabel(example.summary) !== example.summary ? <p className="-mt-2 text-xs text-ink-2">Example: {example.summary}</p> : null}
       {!checkOn ? (
         <p className="-mt-2 text-xs text-ink-2">Off: the request goes out as typed (JSON must still parse), so you can see the server&apos;s problem response for bad input.</p>
       ) : null}
