@@ -109,6 +109,27 @@ export interface JobTable {
   finished_at: Timestamp | null;
 }
 
+export type ClaimVerdict = "pending" | "supported" | "refuted" | "inconclusive";
+
+export interface ClaimTable {
+  /** Public id, e.g. "clm-…" (lib/jobs/ids.ts). */
+  id: string;
+  org_id: number;
+  api_key_id: number | null;
+  /** The firmware version, branch or build the claim is about; a label's claims are its history. */
+  label: string;
+  mode: "analytic" | "measured" | "simulated";
+  verdict: ClaimVerdict;
+  /** The request as validated, JSON. */
+  request: string;
+  /** The decision and its reasoning (JSON), once decided. */
+  outcome: string | null;
+  /** The simulation job behind a simulated claim. */
+  job_id: string | null;
+  created_at: Timestamp;
+  decided_at: Timestamp | null;
+}
+
 export interface JobChunkTable {
   job_id: string;
   point: number;
@@ -167,6 +188,7 @@ export interface Database {
   memberships: MembershipTable;
   api_keys: ApiKeyTable;
   jobs: JobTable;
+  claims: ClaimTable;
   job_chunks: JobChunkTable;
   usage_events: UsageEventTable;
   idempotency_records: IdempotencyRecordTable;
@@ -192,3 +214,4 @@ export type Invitation = Selectable<InvitationTable>;
 
 export type Job = Selectable<JobTable>;
 export type NewJob = Insertable<JobTable>;
+export type Claim = Selectable<ClaimTable>;

@@ -4,6 +4,7 @@ import * as m0002 from "./0002_console";
 import * as m0003 from "./0003_idempotency_lease";
 import * as m0004 from "./0004_bench_credentials";
 import * as m0005 from "./0005_jobs";
+import * as m0006 from "./0006_claims";
 
 /** Static list: Kysely's file-system provider cannot find migrations inside a Next.js build. */
 export const migrations: Record<string, Migration> = {
@@ -12,4 +13,5 @@ export const migrations: Record<string, Migration> = {
   "0003_idempotency_lease": m0003,
   "0004_bench_credentials": m0004,
   "0005_jobs": m0005,
+  "0006_claims": m0006,
 };

@@ -17,22 +17,11 @@ const responseExamples: ResponseExamples = stored;
  * GET /usage reads the caller's own metering rows, so no fixed body is the real answer to its examples:
  * this one is made up to show the shape, and says so.
  */
-export const illustrativeUsage = {
-  org: "acme-radio",
-  from: "2026-11-01",
-  to: "2026-11-07",
-  data: [
-    { day: "2026-11-01", endpoint: "codes.analyze", calls: 12, units: 12, errors: 0 },
-    { day: "2026-11-01", endpoint: "decode", calls: 40, units: 55, errors: 2 },
-    { day: "2026-11-02", endpoint: "capacity", calls: 3, units: 3, errors: 0 },
-  ],
-  nextCursor: null,
-};
 
 /** The 200 examples of one endpoint, under the names of its request examples. */
 function okExamples(e: (typeof endpoints)[number]) {
   if (e.kind === "data") {
-    return e.id === "usage" ? { illustrative: { summary: "Illustrative only: made-up rows; a call returns your organisation's own", value: illustrativeUsage } } : undefined;
+    return { illustrative: e.illustration };
   }
   return Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: responseExamples[e.id]?.[name] }]));
 }
@@ -74,7 +63,7 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
 
   for (const e of endpoints) {
     const examples = Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: ex.value }]));
-    const isGet = e.method === "GET";
+    const noBody = e.method !== "POST";
     const compute = e.kind === "compute";
     registry.registerPath({
       method: e.method.toLowerCase() as "get" | "post" | "delete",
@@ -82,11 +71,12 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
       operationId: e.id,
       tags: [e.tag],
       summary: e.summary,
-      description: `${e.description}${isGet ? " Unknown query parameters are refused (422)." : ""}\n\nScope: \`${e.scope}\`.`,
+      description: `${e.description}${noBody ? " Unknown query parameters are refused (422)." : ""}\n\nScope: \`${e.scope}\`.`,
       security: [{ [bearer.name]: [] }],
-      request: isGet
-        ? { query: e.input as z.ZodObject }
+      request: e.method !== "POST"
+        ? { query: e.input as z.ZodObject, ...(e.params ? { params: e.params } : {}) }
         : {
+            ...(e.params ? { params: e.params } : {}),
             headers: z.object({
               "Idempotency-Key": z
                 .string()
@@ -103,15 +93,25 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
             body: { required: true, description: `JSON, at most ${MAX_BODY_BYTES} bytes.`, content: { "application/json": { schema: e.input, examples } } },
           },
       responses: {
-        200: {
-          description: "Success.",
-          headers: { ...rateHeaders, "X-Compute-Units": { description: "Compute units charged for this call.", schema: { type: "integer" } } },
-          content: { "application/json": { schema: e.output, examples: okExamples(e) } },
-        },
-        ...(isGet ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
+        ...Object.fromEntries(
+          Object.entries(e.statuses ?? { 200: "Success." }).map(([status, description]) => [
+            status,
+            {
+              description,
+              headers: {
+                ...rateHeaders,
+                "X-Compute-Units": { description: "Compute units charged for this call.", schema: { type: "integer" } },
+                ...(status === "200" ? {} : { Location: { description: "Where the resource is read from now on.", schema: { type: "string" } } }),
+              },
+              content: { "application/json": { schema: e.output, ...(status === Object.keys(e.statuses ?? { 200: "" })[0] ? { examples: okExamples(e) } : {}) } },
+            },
+          ]),
+        ),
+        ...(e.params ? { 404: problem("not-found") } : {}),
+        ...(noBody ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
         401: problem("unauthenticated"),
         403: problem("forbidden"),
-        422: isGet ? problem("validation-failed") : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : [])),
+        422: noBody ? problem("validation-failed") : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : [])),
         429: problem("rate-limited"),
         ...(compute ? { 503: problem("server-busy") } : {}),
       },

@@ -11,14 +11,32 @@ export interface HandlerContext {
   db: Db;
   principal: KeyPrincipal;
   requestId: string;
+  /** The path parameters, validated by the endpoint's `params`. */
+  params: Record<string, string>;
+}
+
+/** Success statuses an endpoint may answer besides 200. */
+export type SuccessStatus = 200 | 201 | 202;
+
+/** A data handler's answer with a status other than 200 and, for 201 and 202, where the resource lives (Location). */
+export class Reply<T> {
+  constructor(
+    readonly status: SuccessStatus,
+    readonly body: T,
+    readonly location?: string,
+  ) {}
 }
 
 interface CommonSpec<I extends z.ZodType, O extends z.ZodType> {
   /** Operation id: names the endpoint in the OpenAPI document and in usage rows. */
   id: string;
   method: Method;
-  /** Path below /api/v1, e.g. "/distance". */
+  /** Path below /api/v1, e.g. "/distance"; a path parameter is written {name}, e.g. "/claims/{id}". */
   path: string;
+  /** The path parameters' schema, one string field per {name} in `path`. */
+  params?: z.ZodObject;
+  /** What each success status means, when the endpoint answers anything but 200 (default: 200 "Success."). */
+  statuses?: Partial<Record<SuccessStatus, string>>;
   scope: Scope;
   tag: string;
   summary: string;
@@ -46,7 +64,9 @@ export interface ComputeSpec<I extends z.ZodType, O extends z.ZodType> extends C
 /** Reads or writes the database for the calling key; cheap, fixed cost, always on the event loop. */
 export interface DataSpec<I extends z.ZodType, O extends z.ZodType> extends CommonSpec<I, O> {
   cost: number;
-  handler: (input: z.output<I>, ctx: HandlerContext) => z.output<O> | Promise<z.output<O>>;
+  /** The reference's response example: a data answer depends on the caller's own rows, so it is made up and says so ("Illustrative only: …"). */
+  illustration: { summary: string; value: z.output<O> };
+  handler: (input: z.output<I>, ctx: HandlerContext) => z.output<O> | Reply<z.output<O>> | Promise<z.output<O> | Reply<z.output<O>>>;
 }
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any -- the erased type of a list of endpoints: each one's own types live in its definition.

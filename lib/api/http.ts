@@ -3,7 +3,7 @@ import { InputError } from "@/lib/core/errors";
 import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
 import { authenticate, requireScope, type KeyPrincipal } from "./auth";
 import { parseJsonBody, readBodyText } from "./body";
-import type { Endpoint, Method } from "./endpoint";
+import { Reply, type Endpoint, type Method } from "./endpoint";
 import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem, type ProblemCode } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
@@ -18,8 +18,26 @@ const inputProblem = (e: InputError) => validationProblem([{ pointer: toPointer(
 const asProblem = (err: unknown) => (err instanceof InputError ? inputProblem(err) : err);
 
 function readInput(req: Request, bodyText: string, method: Method): unknown {
-  if (method === "GET") return Object.fromEntries(new URL(req.url).searchParams);
+  if (method !== "POST") return Object.fromEntries(new URL(req.url).searchParams);
   return parseJsonBody(req, bodyText);
+}
+
+const API_BASE = "/api/v1";
+
+/** A matcher for the endpoint's path template: "/claims/{id}" → the values of its {names}, or null. */
+function pathMatcher(template: string): (pathname: string) => Record<string, string> | null {
+  const names: string[] = [];
+  const pattern = template.replace(/[.*+?^$()|[\]\\]/g, "\\$&").replace(/\{(\w+)\}/g, (_, name: string) => (names.push(name), "([^/]+)"));
+  const re = new RegExp(`^${API_BASE}${pattern}$`);
+  return (pathname) => {
+    const m = re.exec(pathname);
+    if (!m) return null;
+    try {
+      return Object.fromEntries(names.map((n, i) => [n, decodeURIComponent(m[i + 1]!)]));
+    } catch {
+      return null;
+    }
+  };
 }
 
 /** What the pool's refusal means to the caller (metered at 0 units, like every refusal). */
@@ -54,6 +72,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
   const hit = routeCache.get(spec);
   if (hit) return hit;
 
+  const matchPath = pathMatcher(spec.path);
   const route = async (req: Request): Promise<Response> => {
     const requestId = requestIdFor(req);
     const started = performance.now();
@@ -85,7 +104,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
   };
 
   async function run(req: Request, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
-    const bodyText = spec.method === "GET" ? "" : await readBodyText(req);
+    const bodyText = spec.method === "POST" ? await readBodyText(req) : "";
     const raw = readInput(req, bodyText, spec.method);
     const idemKey = spec.method === "POST" ? req.headers.get("idempotency-key") : null;
     if (idemKey !== null) {
@@ -98,25 +117,38 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       }
       let res: Response;
       try {
-        res = await compute(raw, db, principal, requestId, rateHeaders, charge);
+        res = await compute(req, raw, db, principal, requestId, rateHeaders, charge);
       } catch (err) {
         res = problemResponse(asProblem(err), requestId);
       }
       const body = await res.clone().text();
-      const keep = Object.fromEntries([...res.headers].filter(([k]) => k === "content-type" || k === "x-compute-units"));
+      const keep = Object.fromEntries([...res.headers].filter(([k]) => k === "content-type" || k === "x-compute-units" || k === "location"));
       await finishIdempotent(db, principal.orgId, idemKey, outcome.holder, { status: res.status, headers: keep, body });
       for (const [k, v] of Object.entries(rateHeaders)) res.headers.set(k, v);
       return res;
     }
-    return compute(raw, db, principal, requestId, rateHeaders, charge);
+    return compute(req, raw, db, principal, requestId, rateHeaders, charge);
   }
 
-  async function compute(raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+  /** The path parameters; a path that does not fit the endpoint's (a malformed id) names no resource: 404. */
+  function paramsOf(req: Request): Record<string, string> {
+    if (!spec.params) return {};
+    const pathname = new URL(req.url).pathname;
+    const values = matchPath(pathname);
+    const parsed = values ? spec.params.safeParse(values) : undefined;
+    if (!parsed?.success) throw new ApiError("not-found", `There is no ${pathname}: the id is not one this API gives out.`);
+    return parsed.data as Record<string, string>;
+  }
+
+  async function compute(req: Request, raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+    const params = paramsOf(req);
     const parsed = spec.input.safeParse(raw);
     if (!parsed.success) throw validationProblem(fieldErrorsFromZod(parsed.error));
     const input = parsed.data;
     let json: string;
     let units: number;
+    let status: number = 200;
+    let location: string | undefined;
     if (spec.kind === "compute") {
       const work = spec.work(input);
       checkWork(work, "Split the request into smaller ones, or choose a smaller code.");
@@ -129,7 +161,12 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
         throw e;
       }
     } else {
-      json = JSON.stringify(await spec.handler(input, { db, principal, requestId }));
+      const out = await spec.handler(input, { db, principal, requestId, params });
+      if (out instanceof Reply) {
+        status = out.status;
+        location = out.location === undefined ? undefined : `${API_BASE}${out.location}`;
+      }
+      json = JSON.stringify(out instanceof Reply ? out.body : out);
       units = spec.cost;
     }
     if (process.env.NODE_ENV !== "production") {
@@ -138,8 +175,8 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
     }
     charge(units);
     return new Response(json, {
-      status: 200,
-      headers: { "content-type": "application/json", "x-request-id": requestId, "x-compute-units": String(units), ...rateHeaders },
+      status,
+      headers: { "content-type": "application/json", "x-request-id": requestId, "x-compute-units": String(units), ...(location ? { location } : {}), ...rateHeaders },
     });
   }
 

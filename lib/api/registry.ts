@@ -1,6 +1,7 @@
 import { computeEndpoints } from "./compute-endpoints";
 import type { Endpoint } from "./endpoint";
+import { createClaim, getClaim, listClaimsEndpoint } from "./endpoints/claims";
 import { usage } from "./endpoints/usage";
 
 /** Every public endpoint, in the order the reference lists them. */
-export const endpoints: Endpoint[] = [...computeEndpoints, usage];
+export const endpoints: Endpoint[] = [...computeEndpoints, createClaim, listClaimsEndpoint, getClaim, usage];

@@ -33,6 +33,8 @@ export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/console/orgs/[org]/usage": ["GET"],
   "/api/health": ["GET"],
   "/api/v1/capacity": ["POST"],
+  "/api/v1/claims": ["GET", "POST"],
+  "/api/v1/claims/[id]": ["GET"],
   "/api/v1/channels/bsc": ["POST"],
   "/api/v1/codes/analyze": ["POST"],
   "/api/v1/decode": ["POST"],

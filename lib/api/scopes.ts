@@ -2,6 +2,7 @@
 export const scopeCatalogue = {
   compute: "Call the math endpoints: codes, encode, decode, distance, channels, capacity, links.",
   "usage:read": "Read the organisation's metered usage.",
+  claims: "State error-rate claims and read their verdicts and each label's history.",
 } as const;
 
 export type Scope = keyof typeof scopeCatalogue;

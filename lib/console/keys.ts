@@ -13,7 +13,7 @@ import type { Mail } from "@/lib/mail/send";
 import { deliver, keyNotices, type KeyEvent } from "./notices";
 import { MAX_OVERLAP_MINUTES, oldKeyEndsAt } from "./overlap";
 
-export const BENCH_CREDENTIAL = { name: "bench credential", scopes: ["compute", "usage:read"] as Scope[], ttlMs: HOUR_MS };
+export const BENCH_CREDENTIAL = { name: "bench credential", scopes: ["compute", "usage:read", "claims"] as Scope[], ttlMs: HOUR_MS };
 
 const scopeSchema = z.enum(allScopes);
 
@@ -191,7 +191,7 @@ export async function revokeKeysCreatedBy(tx: Db, org: Org, caller: Caller, user
 }
 
 /**
- * The caller's bench credential: one per person and org, a test key for compute and usage:read
+ * The caller's bench credential: one per person and org, a test key for compute, usage:read and claims
  * that lasts an hour from its latest renewal. Only a hash is stored, so a renewal gives the same
  * row a new secret (any earlier one stops); the first issue is audited, renewals are not. Owners
  * get no mail for it, and it is kept out of the keys list: it is not a key anyone manages.

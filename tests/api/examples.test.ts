@@ -9,6 +9,9 @@ beforeAll(async () => {
   ({ auth } = await makeOrgWithKey());
 });
 
+/** The status a call succeeds with: the first the definition documents, else 200. */
+const successOf = (e: (typeof endpoints)[number]) => Number(Object.keys(e.statuses ?? { 200: "" })[0]);
+
 const cases = endpoints.flatMap((e) => Object.entries(e.examples).map(([name, ex]) => ({ e, name, ex, label: `${e.method} ${e.path} example "${name}"` })));
 
 type Json = Record<string, unknown>;
@@ -21,9 +24,9 @@ type Operation = {
 };
 
 describe("every documented request example runs", () => {
-  it("the registry has endpoints, each with at least one example", () => {
+  it("the registry has endpoints, each with at least one example (but those that read one resource by its id, which a call makes first)", () => {
     expect(endpoints.length).toBeGreaterThan(0);
-    for (const e of endpoints) expect(Object.keys(e.examples).length, e.id).toBeGreaterThan(0);
+    for (const e of endpoints) expect(Object.keys(e.examples).length, e.id).toBe(e.params ? 0 : Math.max(1, Object.keys(e.examples).length));
   });
 
   it.each(cases)("$label: the example passes the input schema", ({ e, ex }) => {
@@ -31,13 +34,13 @@ describe("every documented request example runs", () => {
     expect(parsed.success, parsed.error?.message).toBe(true);
   });
 
-  it.each(cases)("$label → 200 with a body that passes the output schema", async ({ e, ex }) => {
+  it.each(cases)("$label → its success status with a body that passes the output schema", async ({ e, ex }) => {
     const url = `/api/v1${e.path}`;
     const res =
       e.method === "GET"
         ? await getQuery(url, Object.fromEntries(Object.entries(ex.value as Json).map(([k, v]) => [k, String(v)])), auth)
         : await postJson(url, ex.value, auth);
-    expect(res.status, res.text).toBe(200);
+    expect(res.status, res.text).toBe(successOf(e));
     expect(res.headers["content-type"]).toMatch(/^application\/json/);
     const out = e.output.safeParse(res.body);
     expect(out.success, out.error?.message).toBe(true);
@@ -75,7 +78,7 @@ describe("GET /api/v1/openapi.json", () => {
       expect(op, `${e.method} ${e.path}`).toBeDefined();
       expect(op!.operationId).toBe(e.id);
       ids.add(op!.operationId!);
-      expect(op!.responses).toHaveProperty("200");
+      expect(op!.responses).toHaveProperty(String(successOf(e)));
       expect(op!.responses).toHaveProperty("401");
       expect(op!.responses).toHaveProperty("422");
       expect(op!.responses).toHaveProperty("429");

@@ -54,7 +54,8 @@ describe("the route table (lib/api/route-table.ts)", () => {
   });
 
   it("lists every public endpoint of the registry under /api/v1 with its method", () => {
-    for (const e of endpoints) expect(apiRoutes[`/api/v1${e.path}`], e.id).toContain(e.method);
+    // The reference writes a path parameter {id}; the App Router [id].
+    for (const e of endpoints) expect(apiRoutes[`/api/v1${e.path.replace(/\{(\w+)\}/g, "[$1]")}`], e.id).toContain(e.method);
   });
 
   it("Allow: the served methods, HEAD with GET, OPTIONS always, in one fixed order", () => {

@@ -183,7 +183,7 @@ describe("each entry as a sentence", () => {
       [`${keyPrefix}…`, keysPage],
     ]);
     const fixtureKey = one("key.created", (e) => e.actor.id === `user:${fx.owner.id}`);
-    expect(text(fixtureKey.sentence)).toBe(`owner created the test key “owner key” (${fx.keys.owner.record.prefix}…) with the scopes compute and usage:read.`);
+    expect(text(fixtureKey.sentence)).toBe(`owner created the test key “owner key” (${fx.keys.owner.record.prefix}…) with the scopes compute, usage:read and claims.`);
     // The old key's overlap was cut short by the revocation that followed.
     expect(text(one("key.rotated").sentence)).toBe(`developer rotated the key “audited” (${keyPrefix}…) to ${successorPrefix}…; the old key was to work until [${overlapEnds}].`);
     expect(links(one("key.rotated").sentence).map(([, href]) => href)).toEqual([members, keysPage, keysPage]);
@@ -199,7 +199,7 @@ describe("each entry as a sentence", () => {
     expect(one("member.invited").sentence).toContainEqual({ text: joiner.email, style: "email" });
     expect(text(one("member.joined").sentence)).toBe("joiner joined as a developer.");
     expect(text(one("bench.credential_issued").sentence)).toBe(
-      "developer received a bench credential: a test key for compute and usage:read that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.",
+      "developer received a bench credential: a test key for compute, usage:read and claims that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.",
     );
     expect(text(one("invitation.revoked").sentence)).toBe(`co-owner withdrew the invitation to ${invitee}.`);
     expect(text(one("member.role_changed").sentence)).toBe("owner changed the role of spare from developer to billing admin.");

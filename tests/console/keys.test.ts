@@ -52,7 +52,7 @@ describe("listing", () => {
       name: "developer key",
       prefix: fx.keys.developer.record.prefix,
       mode: "test",
-      scopes: ["compute", "usage:read"],
+      scopes: ["compute", "usage:read", "claims"],
       createdBy: { id: fx.developer.id, email: fx.developer.email },
       state: "active",
       expiresAt: null,
@@ -134,7 +134,7 @@ describe("rotation with an overlap window", () => {
     const { key, record, previous } = res.body as { key: string; record: KeyRecord; previous: { id: number; expiresAt: string } };
     expect(previous.id).toBe(old.record.id);
     expect(Math.abs(Date.parse(previous.expiresAt) - (Date.now() + 24 * 3600_000))).toBeLessThan(60_000);
-    expect(record).toMatchObject({ name: old.record.name, mode: "test", scopes: ["compute", "usage:read"], rotatedFromKeyId: old.record.id, state: "active", expiresAt: null });
+    expect(record).toMatchObject({ name: old.record.name, mode: "test", scopes: ["compute", "usage:read", "claims"], rotatedFromKeyId: old.record.id, state: "active", expiresAt: null });
 
     expect(await capacityWith(old.key)).toBe(200);
     expect(await capacityWith(key)).toBe(200);
@@ -288,7 +288,7 @@ describe("the bench credential", () => {
   const renew = (p: Person) => consoleCall("POST", `/api/console/orgs/${fx.org.slug}/bench-credential`, { cookie: p.cookie });
   const benchRows = () => fx.db.selectFrom("api_keys").selectAll().where("org_id", "=", fx.org.id).where("purpose", "=", "bench").execute();
 
-  it("is a test key for compute and usage:read that lasts an hour, held by the caller, audited once, not mailed, not listed", async () => {
+  it("is a test key for compute, usage:read and claims that lasts an hour, held by the caller, audited once, not mailed, not listed", async () => {
     const res = await renew(fx.developer);
     expect(res.status, res.text).toBe(201);
     const { key, expiresAt, holder } = res.body as { key: string; expiresAt: string; holder: number };
@@ -299,7 +299,7 @@ describe("the bench credential", () => {
     expect((await getQuery("/api/v1/usage", {}, `Bearer ${key}`)).status).toBe(200);
     // Only usage:read and compute: nothing else the API guards.
     const [row] = await benchRows();
-    expect(row).toMatchObject({ scopes: "compute usage:read", mode: "test", created_by_user_id: fx.developer.id, key_hash: hashKey(key), revoked_at: null });
+    expect(row).toMatchObject({ scopes: "compute usage:read claims", mode: "test", created_by_user_id: fx.developer.id, key_hash: hashKey(key), revoked_at: null });
 
     for (const p of [fx.developer, fx.owner]) expect((await listKeys(p)).map((k) => k.id)).not.toContain(row!.id);
     expect((await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "bench.credential_issued")).toHaveLength(1);

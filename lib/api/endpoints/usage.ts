@@ -57,6 +57,20 @@ export const usage = defineDataEndpoint({
     recent: { summary: "The last 30 days", value: {} },
     period: { summary: "One week, 50 rows a page", value: { from: "2026-11-01", to: "2026-11-07", limit: 50 } },
   },
+  illustration: {
+    summary: "Illustrative only: made-up rows; a call returns your organisation's own",
+    value: {
+      org: "brinewatch",
+      from: "2026-11-01",
+      to: "2026-11-07",
+      data: [
+        { day: "2026-11-01", endpoint: "codes.analyze", calls: 12, units: 12, errors: 0 },
+        { day: "2026-11-01", endpoint: "decode", calls: 40, units: 55, errors: 2 },
+        { day: "2026-11-02", endpoint: "capacity", calls: 3, units: 3, errors: 0 },
+      ],
+      nextCursor: null,
+    },
+  },
   cost: 0,
   handler: async (q, { db, principal }) => {
     const to = q.to ?? new Date().toISOString().slice(0, 10);

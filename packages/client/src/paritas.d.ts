@@ -168,6 +168,80 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/tests/plan": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Bits and time needed to demonstrate a BER at a confidence, allowing 0 to k errors, and the test's pass probability
+         * @description For each allowed error count k, the number of bits a test must run so that passing it (at most k errors) shows BER ≤ target at the confidence: the exact binomial length beside the chi-square form χ²(2(k + 1), CL)/(2·BER). With a line rate, the test time; with `trueBerFraction`, the probability that the planned test passes on a link whose BER is that multiple of the target. Bit errors are taken as independent (see `assumption`).
+         *
+         *     **Work and cost.** 1024 + for each plan (allowed error count k) 2^12 + 2^14·(k + 2): a chi-square quantile and a bisection on the binomial CDF. A call estimated at up to 2^20 work units runs at once; a larger one runs on the worker pool with a deadline; one beyond 2^32 is refused (422 `work-limit`) before anything is computed, naming the quantity and the nearest allowed request. Cost: 1 compute unit per started 2^22 work units, at least 1 (`X-Compute-Units`).
+         *
+         *     Scope: `compute`.
+         */
+        post: operations["tests.plan"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/claims": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Claims, newest first: a label's history
+         * @description The organisation's claims, newest first, optionally one label's (its history) or one verdict's, with cursor pagination. Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        get: operations["claims.list"];
+        put?: never;
+        /**
+         * State an error-rate claim and get its verdict
+         * @description A claim: under a label (firmware version, branch, build), the rate a link keeps at most (`target`: a BER or FER bound, or a named preset), and the evidence that decides it. `analytic` evidence decides at once from a formula: an uncoded BSC or AWGN link (BPSK, QPSK, M-PSK, square M-QAM), or a code on a BSC or on AWGN with BPSK/QPSK hard decisions, its FER exact under bounded-distance decoding up to t = ⌊(dmin − 1)/2⌋ and its BER by an estimate (the verdict then says `exact: false`). `measured` evidence is your own counts (trials and errors): supported when the one-sided Clopper–Pearson upper bound at the claim's confidence is within the target, refuted when the lower bound is above it, else inconclusive with the error-free trials that would decide it. Answers 201 with the claim and Location. Cost: 1 unit.
+         *
+         *     Scope: `claims`.
+         */
+        post: operations["claims.create"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/claims/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * One claim and its verdict
+         * @description The claim as decided: verdict, rate, interval, reasoning and the evidence. Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        get: operations["claims.get"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/usage": {
         parameters: {
             query?: never;
@@ -971,6 +1045,178 @@ export interface components {
                 dmin: number;
             };
         } & (unknown & unknown & unknown & unknown & unknown)));
+        TestPlanResult: {
+            targetBer: number;
+            confidence: number;
+            lineRateBps?: number;
+            /** @description trueBerFraction × targetBer: the BER at which `passProbability` is computed. */
+            trueBer?: number;
+            plans: {
+                /** @description The test passes with at most this many errors. */
+                allowedErrors: number;
+                /** @description Exact binomial test length. */
+                exact: {
+                    /** @description Smallest whole number of bits n with P(at most allowedErrors errors | n, targetBer) ≤ 1 − confidence. */
+                    bits: number;
+                    /** @description bits × targetBer. */
+                    berTimesBits: number;
+                    /** @description bits / lineRateBps; only with `lineRateBps`. */
+                    seconds?: number;
+                    /** @description The same time in words (years of 365.25 days); only with `lineRateBps`. */
+                    duration?: string;
+                };
+                /** @description The chi-square (Poisson) form of the test length. */
+                chiSquare: {
+                    /** @description χ²(2(k + 1), confidence) / (2·targetBer), rounded up to whole bits. */
+                    bits: number;
+                    /** @description χ²(2(k + 1), confidence) / 2 before rounding: the figure BER-test tables list (2.996 for 0 errors at 95 %). */
+                    berTimesBits: number;
+                    /** @description bits / lineRateBps; only with `lineRateBps`. */
+                    seconds?: number;
+                    /** @description The same time in words (years of 365.25 days); only with `lineRateBps`. */
+                    duration?: string;
+                };
+                /** @description P(at most allowedErrors errors in the exact plan's bits) at `trueBer`; only with `trueBerFraction`. */
+                passProbability?: number;
+            }[];
+            methods: {
+                exact: string;
+                chiSquare: string;
+                passProbability?: string;
+            };
+            /** @description When the plan holds. */
+            assumption: string;
+            caution: string;
+        };
+        TestPlanRequest: {
+            /** @description The BER the test is to demonstrate, from 1e-13 to below 0.5 (common targets: voice about 1e-3, data 1e-5 to 1e-6, optical fibre 1e-9 or lower). */
+            targetBer: number;
+            /** @description Confidence level as a fraction, from 0.5 to 0.999999 (0.95 for 95 %). */
+            confidence: number;
+            /**
+             * @description Plans are given for a test allowing 0, 1, …, maxErrors errors (at most 100); 0 when left out.
+             * @default 0
+             */
+            maxErrors: number;
+            /**
+             * @description true: give only the plan allowing exactly `maxErrors` errors.
+             * @default false
+             */
+            onlyMaxErrors: boolean;
+            /** @description Line rate in bit/s, from 1 to 1e13: adds each plan's test time in seconds and in words. */
+            lineRateBps?: number;
+            /** @description Adds each plan's pass probability if the true BER is this multiple of the target (above 0, at most 10, and the true BER at most 0.5): below 1 it is the test's power on a link that is better than the target; at 1 and above, the chance that a link not meeting the target passes (at most 1 − confidence at 1). */
+            trueBerFraction?: number;
+        };
+        Claim: {
+            /** @description `clm-` and 16 characters. */
+            id: string;
+            label: string;
+            statement?: string;
+            createdAt: string;
+            decidedAt: string | null;
+            target: {
+                /** @enum {string} */
+                metric: "ber" | "fer";
+                atMost: number;
+                preset?: string;
+            };
+            confidence: number;
+            /** @enum {string} */
+            mode: "analytic" | "measured";
+            /** @enum {string} */
+            verdict: "supported" | "refuted" | "inconclusive";
+            /** @description The rate the evidence gives: a formula's value, or the observed errors ÷ trials. */
+            rate: number;
+            /** @description Whether `rate` is exact under the stated model; false for measured counts and for an estimate formula. */
+            exact: boolean;
+            /** @description Bounds on the rate behind the verdict: the one-sided bounds at the claim's confidence for measured counts; the rate itself for a formula. */
+            interval: {
+                lower: number;
+                upper: number;
+                method: string;
+            };
+            /** @description The verdict in one sentence. */
+            reasoning: string;
+            /** @description How the evidence was read (the code's n, k, t; the channel's bit error probability; …). */
+            details: {
+                [key: string]: number | string | boolean;
+            };
+            /** @description Inconclusive measured claims: error-free bits (or frames) beyond those tested that would support the claim. */
+            moreTrialsToDecide?: number;
+            /** @description The evidence as submitted. */
+            evidence: {
+                [key: string]: unknown;
+            };
+            caution: string;
+        };
+        ClaimRequest: {
+            /** @description What the claim is about: a firmware version, branch or build id; 1 to 120 printable ASCII characters. A label's claims form its history. */
+            label: string;
+            /** @description The claim in the team's own words, up to 300 characters (kept with it, shown in the history). */
+            statement?: string;
+            target: components["schemas"]["ClaimTarget"];
+            /**
+             * @description Confidence of a statistical verdict, 0.5 to 0.999999 (default 0.95): the chance of a wrong supported or refuted verdict is at most 1 − confidence.
+             * @default 0.95
+             */
+            confidence: number;
+            evidence: components["schemas"]["ClaimEvidence"];
+        };
+        /** @description The rate claimed: a metric and its bound, or a named preset. */
+        ClaimTarget: {
+            /**
+             * @description `ber`: information bits in error per information bit; `fer`: frames the decoder did not return correctly (wrong, or declared a failure) per frame.
+             * @enum {string}
+             */
+            metric: "ber" | "fer";
+            /** @description The rate claimed not to be exceeded, above 0 and below 1. */
+            atMost: number;
+        } | {
+            /**
+             * @description A named target (common practice): `voice` = BER 0.001, `data` = BER 0.00001, `data-strict` = BER 0.000001, `fibre` = BER 1e-9.
+             * @enum {string}
+             */
+            preset: "voice" | "data" | "data-strict" | "fibre";
+        };
+        ClaimEvidence: {
+            /** @enum {string} */
+            mode: "analytic";
+            /** @description The code, decoded up to its correction radius t = ⌊(dmin − 1)/2⌋ (what every decoder here does); left out for an uncoded link. */
+            code?: components["schemas"]["RepetitionCode"] | components["schemas"]["ParityCode"] | components["schemas"]["HammingCode"] | components["schemas"]["GolayCode"] | components["schemas"]["LinearCode"] | components["schemas"]["CrcCode"] | components["schemas"]["BchCode"] | components["schemas"]["ReedSolomonCode"];
+            channel: components["schemas"]["ClaimChannel"];
+            /** @description Uncoded FER only: the bits in a frame (1 to 1073741824); a coded frame is a codeword. */
+            frameBits?: number;
+        } | {
+            /** @enum {string} */
+            mode: "measured";
+            /** @description Bits tested (a `ber` target) or frames (a `fer` target), at least 1 and at most 2^53 − 1. */
+            trials: number;
+            /** @description Errors observed among them: bit errors or frame errors. */
+            errors: number;
+        };
+        ClaimChannel: {
+            /** @enum {string} */
+            type: "bsc";
+            /** @description Crossover probability of the binary symmetric channel. */
+            p: number;
+        } | {
+            /** @enum {string} */
+            type: "awgn";
+            /**
+             * @description `bpsk`, `qpsk` (Gray), or `psk` / `qam` with an `order`; a coded claim takes BPSK or QPSK with hard decisions.
+             * @enum {string}
+             */
+            modulation: "bpsk" | "qpsk" | "psk" | "qam";
+            /** @description Constellation size for `psk` (a power of 2, 2 to 1024) and `qam` (4 to 4096, square). */
+            order?: number;
+            /** @description Eb/N0 per information bit, in dB, −20 to 80. */
+            ebN0Db: number;
+        };
+        ClaimPage: {
+            data: components["schemas"]["Claim"][];
+            nextCursor: string | null;
+        };
         UsagePage: {
             /** @description Slug of the calling key's organisation. */
             org: string;
@@ -2247,6 +2493,546 @@ export interface operations {
             };
             /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
             503: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "tests.plan": {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                "Idempotency-Key"?: string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        /** @description JSON, at most 4194304 bytes. */
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["TestPlanRequest"];
+            };
+        };
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["TestPlanResult"];
+                };
+            };
+            /** @description The request could not be read. The body is not valid JSON, or a header is malformed. Fix the syntax and send it again. */
+            400: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request conflicts with one in progress. A request with the same Idempotency-Key is still running. Retry after it finishes. */
+            409: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request body is too large. Bodies are limited in size; split the work into several requests. */
+            413: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body must be JSON. Send `Content-Type: application/json`. */
+            415: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             *
+             *     `/problems/deadline-exceeded`: The computation ran past its deadline. The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code.
+             *
+             *     `/problems/memory-limit`: The computation ran out of its memory allowance. The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call.
+             */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "claims.list": {
+        parameters: {
+            query?: {
+                /** @description Only this label's claims. */
+                label?: string;
+                /** @description Only claims with this verdict. */
+                verdict?: "supported" | "refuted" | "inconclusive";
+                /** @description Rows per page, 1 to 200 (default 50). */
+                limit?: number;
+                /** @description `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["ClaimPage"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "claims.create": {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                "Idempotency-Key"?: string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        /** @description JSON, at most 4194304 bytes. */
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["ClaimRequest"];
+            };
+        };
+        responses: {
+            /** @description The claim, decided; Location is where it is kept. */
+            201: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    /** @description Where the resource is read from now on. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Claim"];
+                };
+            };
+            /** @description The request could not be read. The body is not valid JSON, or a header is malformed. Fix the syntax and send it again. */
+            400: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request conflicts with one in progress. A request with the same Idempotency-Key is still running. Retry after it finishes. */
+            409: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request body is too large. Bodies are limited in size; split the work into several requests. */
+            413: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body must be JSON. Send `Content-Type: application/json`. */
+            415: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "claims.get": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The claim's id, as returned when it was made (`clm-` and 16 characters). */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Claim"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such resource. The path or the resource does not exist, or it belongs to another organisation. */
+            404: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
