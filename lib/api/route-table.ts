@@ -21,6 +21,7 @@ export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/console/invitations/accept": ["POST"],
   "/api/console/me": ["GET"],
   "/api/console/orgs/[org]/audit": ["GET"],
+  "/api/console/orgs/[org]/claims": ["GET"],
   "/api/console/orgs/[org]/invitations": ["POST"],
   "/api/console/orgs/[org]/invitations/[id]": ["DELETE"],
   "/api/console/orgs/[org]/keys": ["GET", "POST"],
@@ -43,6 +44,9 @@ export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/v1/links/ber": ["POST"],
   "/api/v1/tests/plan": ["POST"],
   "/api/v1/openapi.json": ["GET"],
+  "/api/v1/simulations": ["GET", "POST"],
+  "/api/v1/simulations/[id]": ["GET", "DELETE"],
+  "/api/v1/simulations/[id]/events": ["GET"],
   "/api/v1/usage": ["GET"],
 };
 

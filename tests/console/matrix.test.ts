@@ -132,6 +132,7 @@ const rows: Row[] = [
   { method: "POST", route: "/api/console/orgs/[org]/bench-credential", does: "renew their bench credential", path: (fx) => `${org(fx)}/bench-credential`, expect: keyHolders(201) },
   { method: "GET", route: "/api/console/orgs/[org]/usage", does: "read usage", path: (fx) => `${org(fx)}/usage`, expect: everyone(200) },
   { method: "GET", route: "/api/console/orgs/[org]/audit", does: "read the audit log", path: (fx) => `${org(fx)}/audit`, expect: ownerOnly(200) },
+  { method: "GET", route: "/api/console/orgs/[org]/claims", does: "read the claims", path: (fx) => `${org(fx)}/claims`, expect: everyone(200) },
 ];
 
 /** Console routes written and tested elsewhere: they work without a session, so a role matrix does not apply. */

@@ -93,7 +93,7 @@ interface Stored {
   decision: Decision;
 }
 
-function present(row: Claim): Out {
+export function present(row: Claim): Out {
   const { request, target, decision } = { request: JSON.parse(row.request) as Input, ...(JSON.parse(row.outcome!) as Omit<Stored, "request">) };
   return {
     id: row.id,

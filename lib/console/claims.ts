@@ -1,0 +1,45 @@
+import { z } from "zod";
+import type { Db } from "@/db";
+import { claimLabels, listClaims } from "@/db/queries/claims";
+import type { Org } from "@/db/schema";
+import { present } from "@/lib/api/endpoints/claims";
+import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
+import { invalidField } from "./common";
+
+export const CLAIM_VERDICTS = ["pending", "supported", "refuted", "inconclusive"] as const;
+
+export const claimsQuery = z.strictObject({
+  label: z.string().min(1).max(120).optional(),
+  verdict: z.enum(CLAIM_VERDICTS).optional(),
+  limit: limitParam(100, 25),
+  cursor: cursorParam,
+});
+
+/** The side list shows this many labels, the most recently claimed first. */
+const MAX_LABELS = 200;
+
+const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
+
+/**
+ * The Claims page's data: one page of claims (newest first; one label's and one verdict's when asked), each
+ * exactly as GET /api/v1/claims/{id} presents it plus the simulation job behind it, and every label with its
+ * latest verdict and counts.
+ */
+export async function listOrgClaims(db: Db, org: Pick<Org, "id">, q: z.output<typeof claimsQuery>) {
+  const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
+  if (q.cursor !== undefined && !before) throw invalidField("/cursor", "The cursor is not one this list returned.");
+  const [rows, labels] = await Promise.all([listClaims(db, org.id, { label: q.label, verdict: q.verdict, limit: q.limit + 1, before }), claimLabels(db, org.id, MAX_LABELS)]);
+  const page = rows.slice(0, q.limit);
+  const last = page.at(-1);
+  return {
+    claims: page.map((row) => ({ ...present(row), jobId: row.job_id })),
+    nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null,
+    labels: labels.map((l) => ({
+      label: l.label,
+      latestAt: l.latestAt,
+      latestVerdict: l.latestVerdict!,
+      total: Number(l.total),
+      counts: { supported: Number(l.supported), refuted: Number(l.refuted), inconclusive: Number(l.inconclusive), pending: Number(l.pending) },
+    })),
+  };
+}
