@@ -37,7 +37,7 @@ function problem(...codes: ProblemCode[]) {
   // A 401 comes before the key is known, so it has no rate-limit window to report.
   const headers = codes.includes("unauthenticated")
     ? { "X-Request-Id": rateHeaders["X-Request-Id"] }
-    : codes.some((c) => c === "rate-limited" || c === "server-busy")
+    : codes.some((c) => c === "rate-limited" || c === "server-busy" || c === "job-limit")
       ? { ...rateHeaders, "Retry-After": { description: "Seconds to wait (RFC 9110).", schema: { type: "integer" as const } } }
       : rateHeaders;
   const explain = (c: ProblemCode) => `${problemTypes[c].title}. ${problemTypes[c].help}`;
@@ -64,6 +64,8 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
   for (const e of endpoints) {
     const examples = Object.fromEntries(Object.entries(e.examples).map(([name, ex]) => [name, { summary: ex.summary, value: ex.value }]));
     const noBody = e.method !== "POST";
+    // Problems the definition names beyond the ones every endpoint of its kind can answer, by status.
+    const more = (status: number) => (e.problems ?? []).filter((c) => problemTypes[c].status === status);
     const compute = e.kind === "compute";
     registry.registerPath({
       method: e.method.toLowerCase() as "get" | "post" | "delete",
@@ -103,7 +105,7 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
                 "X-Compute-Units": { description: "Compute units charged for this call.", schema: { type: "integer" } },
                 ...(status === "200" ? {} : { Location: { description: "Where the resource is read from now on.", schema: { type: "string" } } }),
               },
-              content: { "application/json": { schema: e.output, ...(status === Object.keys(e.statuses ?? { 200: "" })[0] ? { examples: okExamples(e) } : {}) } },
+              content: { [e.kind === "data" && e.produces ? e.produces : "application/json"]: { schema: e.output, ...(status === Object.keys(e.statuses ?? { 200: "" })[0] ? { examples: okExamples(e) } : {}) } },
             },
           ]),
         ),
@@ -111,9 +113,9 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
         ...(noBody ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
         401: problem("unauthenticated"),
         403: problem("forbidden"),
-        422: noBody ? problem("validation-failed") : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : [])),
-        429: problem("rate-limited"),
-        ...(compute ? { 503: problem("server-busy") } : {}),
+        422: noBody ? problem("validation-failed", ...more(422)) : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : []), ...more(422)),
+        429: problem("rate-limited", ...more(429)),
+        ...(compute || more(503).length ? { 503: problem("server-busy") } : {}),
       },
     });
   }

@@ -2,6 +2,7 @@ import type { z } from "zod";
 import type { Db } from "@/db";
 import { InputError } from "@/lib/core/errors";
 import type { KeyPrincipal } from "./auth";
+import type { ProblemCode } from "./errors";
 import type { Scope } from "./scopes";
 import { describeWork, unitsFor } from "./work";
 
@@ -17,6 +18,14 @@ export interface HandlerContext {
 
 /** Success statuses an endpoint may answer besides 200. */
 export type SuccessStatus = 200 | 201 | 202;
+
+/** A data handler's streamed answer (Server-Sent Events): the body as it comes, under the definition's `produces` type. */
+export class StreamReply {
+  constructor(
+    readonly body: ReadableStream<Uint8Array>,
+    readonly contentType: string,
+  ) {}
+}
 
 /** A data handler's answer with a status other than 200 and, for 201 and 202, where the resource lives (Location). */
 export class Reply<T> {
@@ -35,6 +44,8 @@ interface CommonSpec<I extends z.ZodType, O extends z.ZodType> {
   path: string;
   /** The path parameters' schema, one string field per {name} in `path`. */
   params?: z.ZodObject;
+  /** Problems this endpoint answers beyond those of every endpoint of its kind (422 work-limit, 429 job-limit, 503 server-busy). */
+  problems?: ProblemCode[];
   /** What each success status means, when the endpoint answers anything but 200 (default: 200 "Success."). */
   statuses?: Partial<Record<SuccessStatus, string>>;
   scope: Scope;
@@ -66,7 +77,9 @@ export interface DataSpec<I extends z.ZodType, O extends z.ZodType> extends Comm
   cost: number;
   /** The reference's response example: a data answer depends on the caller's own rows, so it is made up and says so ("Illustrative only: …"). */
   illustration: { summary: string; value: z.output<O> };
-  handler: (input: z.output<I>, ctx: HandlerContext) => z.output<O> | Reply<z.output<O>> | Promise<z.output<O> | Reply<z.output<O>>>;
+  /** The media type of a streamed answer (the handler returns a StreamReply), instead of JSON. */
+  produces?: "text/event-stream";
+  handler: (input: z.output<I>, ctx: HandlerContext) => z.output<O> | Reply<z.output<O>> | StreamReply | Promise<z.output<O> | Reply<z.output<O>> | StreamReply>;
 }
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any -- the erased type of a list of endpoints: each one's own types live in its definition.

@@ -28,6 +28,7 @@ export const problemTypes = {
   "deadline-exceeded": { status: 422, title: "The computation ran past its deadline", help: "The work was stopped when it reached the per-call time limit named in `limit`. Ask for less in one call: split a batch, or choose a smaller code." },
   "memory-limit": { status: 422, title: "The computation ran out of its memory allowance", help: "The work was stopped when it exceeded the per-task memory ceiling named in `limit`. Ask for less in one call." },
   "idempotency-key-reused": { status: 422, title: "Idempotency-Key reused with another body", help: "An Idempotency-Key belongs to one request body. Use a new key for a new request." },
+  "job-limit": { status: 429, title: "Too many jobs at once", help: "The organisation has as many simulations and simulated claims queued or running as it may (`limit`). Wait for one to end, or cancel one, and send again." },
   "rate-limited": { status: 429, title: "Too many requests", help: "Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window." },
   "server-busy": { status: 503, title: "The compute pool is full", help: "Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`." },
   "internal": { status: 500, title: "Something went wrong on our side", help: "The failure was logged with the request id. Retrying may help; if it does not, report the request id." },

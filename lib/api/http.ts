@@ -3,7 +3,7 @@ import { InputError } from "@/lib/core/errors";
 import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
 import { authenticate, requireScope, type KeyPrincipal } from "./auth";
 import { parseJsonBody, readBodyText } from "./body";
-import { Reply, type Endpoint, type Method } from "./endpoint";
+import { Reply, StreamReply, type Endpoint, type Method } from "./endpoint";
 import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem, type ProblemCode } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
@@ -162,6 +162,13 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       }
     } else {
       const out = await spec.handler(input, { db, principal, requestId, params });
+      if (out instanceof StreamReply) {
+        charge(spec.cost);
+        return new Response(out.body, {
+          status: 200,
+          headers: { "content-type": out.contentType, "cache-control": "no-store", "x-accel-buffering": "no", "x-request-id": requestId, "x-compute-units": String(spec.cost), ...rateHeaders },
+        });
+      }
       if (out instanceof Reply) {
         status = out.status;
         location = out.location === undefined ? undefined : `${API_BASE}${out.location}`;

@@ -11,7 +11,12 @@ import { Piscina } from "piscina";
 export type Lane = "request" | "batch";
 
 /** A task the worker entry (pool-worker.ts) knows how to run. */
-export type PoolTask = { kind: "endpoint"; id: string; input: unknown };
+export type PoolTask =
+  | { kind: "endpoint"; id: string; input: unknown }
+  /** One chunk of a simulation: its counts (lib/api/simulation-spec.ts, lib/core/sim). */
+  | { kind: "sim-chunk"; request: unknown; point: number; chunk: number; frames: number }
+  /** Build a simulation's simulator, so that a request's mistakes are found before it is queued. */
+  | { kind: "sim-check"; request: unknown };
 
 /** What a task sends back: the JSON text of its result, or the error it threw, as data (classes do not cross threads). */
 export type PoolReply =

@@ -1,5 +1,6 @@
-import type { Db } from "@/db";
+import { inTransaction, type Db } from "@/db";
 import { claimJob, finishJob, insertJob, insertJobChunk, listJobChunks, releaseJob, renewJob } from "@/db/queries/jobs";
+import { insertUsageEvent } from "@/db/queries/usage";
 
 /** A job as a runner receives it: its input and the chunks already folded (a resumed job continues after them). */
 export interface ClaimedJob {
@@ -58,13 +59,32 @@ export function databaseQueue(db: Db): JobQueue {
       return { held: Boolean(row), cancelRequested: Boolean(row?.cancel_requested_at) };
     },
     saveChunk: (id, holder, point, chunk, counts) => insertJobChunk(db, id, holder, point, chunk, JSON.stringify(counts)),
+    // The job's charge is metered in the same transaction that ends it: never lost, never twice.
     finish: (id, holder, end) =>
-      finishJob(db, id, holder, iso(Date.now()), {
-        status: end.status,
-        units: end.units,
-        reason: end.reason,
-        result: end.result === undefined ? undefined : JSON.stringify(end.result),
-        progress: end.progress === undefined ? undefined : JSON.stringify(end.progress),
+      inTransaction(db, async (tx) => {
+        const now = iso(Date.now());
+        const ended = await finishJob(tx, id, holder, now, {
+          status: end.status,
+          units: end.units,
+          reason: end.reason,
+          result: end.result === undefined ? undefined : JSON.stringify(end.result),
+          progress: end.progress === undefined ? undefined : JSON.stringify(end.progress),
+        });
+        if (!ended) return false;
+        const job = await tx.selectFrom("jobs").select(["org_id", "api_key_id", "kind", "started_at"]).where("id", "=", id).executeTakeFirstOrThrow();
+        await insertUsageEvent(tx, {
+          org_id: job.org_id,
+          api_key_id: job.api_key_id,
+          endpoint: `jobs.${job.kind}`,
+          method: "JOB",
+          status: end.status === "failed" ? 422 : 200,
+          units: end.units,
+          duration_ms: job.started_at ? Date.parse(now) - Date.parse(job.started_at) : 0,
+          request_id: id,
+          created_at: now,
+          reported_at: null,
+        });
+        return true;
       }),
     async release(id, holder) {
       await releaseJob(db, id, holder, iso(Date.now()));

@@ -143,7 +143,8 @@ export async function runJob(job: ClaimedJob, o: RunnerOptions, stopping: () => 
       });
       return "cancelled";
     }
-    await queue.finish(job.id, holder, { status: "failed", reason: `The computation stopped with an error: ${(e as Error).message}`, progress: plan.progress(states, stops), units: plan.units(states) });
+    // A failed job is not charged.
+    await queue.finish(job.id, holder, { status: "failed", reason: `The computation stopped with an error: ${(e as Error).message}`, progress: plan.progress(states, stops), units: 0 });
     return "failed";
   }
 }

@@ -118,7 +118,7 @@ describe("GET /api/v1/openapi.json", () => {
     }
   });
 
-  it.each(endpoints.filter((e) => e.method !== "GET"))("$method $path: the request body carries every registry example", (e) => {
+  it.each(endpoints.filter((e) => e.method === "POST"))("$method $path: the request body carries every registry example", (e) => {
     const examples = doc.paths[e.path]![e.method.toLowerCase()]!.requestBody?.content?.["application/json"]?.examples;
     expect(examples).toBeDefined();
     for (const [name, ex] of Object.entries(e.examples)) {

@@ -26,7 +26,9 @@ type Examples = Record<string, { summary?: string; value: Json }>;
 /** The examples of the operation's success response (its first documented 2xx). */
 const okExamples = (o: Operation) => {
   const status = Object.keys(o.responses).find((s) => s.startsWith("2"))!;
-  return (o.responses[status]?.content?.["application/json"] as { examples?: Examples } | undefined)?.examples ?? {};
+  // JSON, or the stream's own media type (Server-Sent Events).
+  const content = Object.values(o.responses[status]?.content ?? {})[0] as { examples?: Examples } | undefined;
+  return content?.examples ?? {};
 };
 const cases = computeEndpoints.flatMap((e) => Object.entries(e.examples).map(([name, ex]) => ({ e, name, ex, label: `${e.method} ${e.path} "${name}"` })));
 

@@ -71,6 +71,8 @@ describe("the runner", () => {
     ]);
     expect(row.units).toBe(7);
     expect(row.lease_holder).toBeNull();
+    // Metered once, with the job's id as the request id.
+    expect(await db.selectFrom("usage_events").select(["endpoint", "method", "units"]).where("request_id", "=", id).execute()).toEqual([{ endpoint: "jobs.counting", method: "JOB", units: 7 }]);
     expect((await db.selectFrom("job_chunks").select(["point", "chunk"]).where("job_id", "=", id).execute()).length).toBe(7);
   });
 
@@ -129,11 +131,12 @@ describe("the runner", () => {
     expect(await queue.claim("r", 10_000)).toBeNull();
   });
 
-  it("fails a job whose computation throws, with the reason, and keeps the chunks before", async () => {
+  it("fails a job whose computation throws, with the reason, keeps the chunks before and charges nothing", async () => {
     const { db, queue, id, org } = await setup([100]);
     expect(await runJob((await queue.claim("r", 10_000))!, { queue, kinds: [counting(0, 3)], holder: "r" }, never)).toBe("failed");
     const row = (await findJob(db, org.id, id))!;
-    expect(row).toMatchObject({ status: "failed", units: 3 });
+    expect(row).toMatchObject({ status: "failed", units: 0 });
+    expect(JSON.parse(row.progress!)).toEqual([3]);
     expect(row.reason).toMatch(/chunk 3 broke/);
   });
 

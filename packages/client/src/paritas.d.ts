@@ -242,6 +242,84 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/simulations": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Simulations, newest first
+         * @description The organisation's simulations, newest first, with cursor pagination. Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        get: operations["simulations.list"];
+        put?: never;
+        /**
+         * Start a seeded Monte Carlo simulation of bit and frame error rates
+         * @description A sweep of up to 16 operating points of a code (or none) on a BSC, BEC or AWGN channel (BPSK or Gray QPSK, hard or soft decisions), each run in chunks until one of its stopping rules holds. It runs as a job: the answer is 202 with Location; read it with GET /simulations/{id}, follow it with GET /simulations/{id}/events, cancel it with DELETE. The same request and seed give the same counts. Limits: 16 points, 2^40 information bits and 3600 s per point, 4 jobs queued or running per organisation (429 job-limit). Cost: 1 unit to start, and when the job ends 1 unit per started 2^26 (67,108,864) simulated information bits, charged for the chunks run (a cancelled job too).
+         *
+         *     Scope: `claims`.
+         */
+        post: operations["simulations.create"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/simulations/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * A simulation: its status, progress and counts with intervals
+         * @description Status (queued, running, done, cancelled, failed with a reason), each point's counts, stopping rule and progress, and the error rates with Clopper–Pearson and Wilson intervals. Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        get: operations["simulations.get"];
+        put?: never;
+        post?: never;
+        /**
+         * Cancel a simulation
+         * @description A queued simulation ends at once (200); a running one is ended by its runner within about a second (202: read it again for the final state), keeping the counts of the chunks it finished; a finished one is left as it is (200). Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        delete: operations["simulations.cancel"];
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/simulations/{id}/events": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Follow a simulation as Server-Sent Events
+         * @description A `text/event-stream`: a `progress` event with the simulation (as GET /simulations/{id}) whenever it changes, at most four a second, then one `end` event with its final state, and the stream closes. A stream stays open at most 30 minutes; reconnect to go on. Cost: 0 units. Unknown query parameters are refused (422).
+         *
+         *     Scope: `claims`.
+         */
+        get: operations["simulations.events"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/usage": {
         parameters: {
             query?: never;
@@ -1215,6 +1293,146 @@ export interface components {
         };
         ClaimPage: {
             data: components["schemas"]["Claim"][];
+            nextCursor: string | null;
+        };
+        Simulation: {
+            /** @description `sim-` and 16 characters. */
+            id: string;
+            /** @enum {string} */
+            status: "queued" | "running" | "done" | "cancelled" | "failed";
+            /** @description Why it failed or was cancelled. */
+            reason: string | null;
+            seed: number;
+            /** @description The request as validated, defaults filled in. */
+            request: {
+                [key: string]: unknown;
+            };
+            /** @description The mean over points of how far each is, 0 to 1. */
+            progress: number;
+            points: {
+                /** @description The operating point: p, ε, or Eb/N0 in dB. */
+                x: number;
+                /** @enum {string} */
+                status: "waiting" | "running" | "done";
+                /** @description The rule that ended the point: minBitErrors, minFrameErrors, maxBits, maxFrames, maxMillis, or decided:<verdict> for a claim. */
+                stoppedBy: string | null;
+                /** @description How far the point is towards its nearest stopping rule, 0 to 1. */
+                fraction: number;
+                chunks: number;
+                counts: {
+                    frames: number;
+                    infoBits: number;
+                    bitErrors: number;
+                    frameErrors: number;
+                    failures: number;
+                    undetected: number;
+                };
+                /** @description Information-bit error rate; null before any bit. After decoding, bit errors come in bursts inside failed frames: read the FER's interval for a coded link. */
+                ber: {
+                    /** @description Errors ÷ trials. */
+                    estimate: number;
+                    /** @description Two-sided Clopper–Pearson interval at the request's confidence (Clopper & Pearson 1934). */
+                    clopperPearson: {
+                        lower: number;
+                        upper: number;
+                    };
+                    /** @description Wilson score interval at the request's confidence (Wilson 1927). */
+                    wilson: {
+                        lower: number;
+                        upper: number;
+                    };
+                } | null;
+                /** @description Frame error rate (a frame decoded wrong or declared a failure); null before any frame. */
+                fer: {
+                    /** @description Errors ÷ trials. */
+                    estimate: number;
+                    /** @description Two-sided Clopper–Pearson interval at the request's confidence (Clopper & Pearson 1934). */
+                    clopperPearson: {
+                        lower: number;
+                        upper: number;
+                    };
+                    /** @description Wilson score interval at the request's confidence (Wilson 1927). */
+                    wilson: {
+                        lower: number;
+                        upper: number;
+                    };
+                } | null;
+            }[];
+            /** @description Compute units charged: one per started 2^26 simulated information bits, when the job ends (a cancelled job pays for the chunks it ran). */
+            units: number;
+            createdAt: string;
+            startedAt: string | null;
+            finishedAt: string | null;
+            links: {
+                self: string;
+                events: string;
+            };
+            caution: string;
+        };
+        SimulationRequest: {
+            /** @description The code; left out for uncoded transmission. */
+            code?: components["schemas"]["RepetitionCode"] | components["schemas"]["ParityCode"] | components["schemas"]["HammingCode"] | components["schemas"]["GolayCode"] | components["schemas"]["LinearCode"] | components["schemas"]["CrcCode"] | components["schemas"]["BchCode"] | components["schemas"]["ReedSolomonCode"];
+            /** @description Uncoded only: bits per frame, 1 to 65536 (default 1, so frames are bits). */
+            frameBits?: number;
+            channel: components["schemas"]["SimulationChannel"];
+            /** @description The sweep, 1 to 16 points: probabilities in [0, 1] on the BSC and BEC, Eb/N0 in dB (−20 to 80) on AWGN. */
+            points: number[];
+            stop?: components["schemas"]["StopRules"];
+            /**
+             * @description Confidence of the intervals in the result (default 0.95).
+             * @default 0.95
+             */
+            confidence: number;
+            /** @description 32-bit seed; drawn and returned when left out. The same request and seed give the same counts. */
+            seed?: number;
+            /**
+             * @description BSC and BEC: draw the gap to the next flip and skip error-free frames (exact; much faster at small p).
+             * @default true
+             */
+            gapSkipping: boolean;
+        };
+        SimulationChannel: {
+            /** @enum {string} */
+            type: "bsc";
+        } | {
+            /** @enum {string} */
+            type: "bec";
+        } | {
+            /** @enum {string} */
+            type: "awgn";
+            /**
+             * @description BPSK, or Gray-mapped QPSK (two BPSK channels: the same bit error rate per Eb/N0).
+             * @enum {string}
+             */
+            modulation: "bpsk" | "qpsk";
+            /**
+             * @description `hard`: each bit decided on its own, then the code's decoder; `soft`: maximum-likelihood decoding by correlation with every codeword (binary codes with k ≤ 12).
+             * @default hard
+             * @enum {string}
+             */
+            decisions: "hard" | "soft";
+        };
+        /**
+         * @description Whichever comes first ends a point; the result says which. One of `maxBits` and `maxFrames` is needed (default maxBits 10^9), so that a point without errors ends.
+         * @default {
+         *       "minBitErrors": 100,
+         *       "maxBits": 1000000000
+         *     }
+         */
+        StopRules: {
+            /** @description Stop a point once it has seen this many bit errors. */
+            minBitErrors?: number;
+            /** @description Stop a point once it has seen this many frame errors. */
+            minFrameErrors?: number;
+            /** @description Stop a point after this many information bits (at most 2^40). */
+            maxBits?: number;
+            /** @description Stop a point after this many frames. */
+            maxFrames?: number;
+            /** @description Stop a point after this much computing time, in seconds (at most 3600). */
+            maxSeconds?: number;
+        };
+        SimulationPage: {
+            data: components["schemas"]["Simulation"][];
             nextCursor: string | null;
         };
         UsagePage: {
@@ -2973,6 +3191,611 @@ export interface operations {
                 };
                 content: {
                     "application/json": components["schemas"]["Claim"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such resource. The path or the resource does not exist, or it belongs to another organisation. */
+            404: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "simulations.list": {
+        parameters: {
+            query?: {
+                /** @description Rows per page, 1 to 100 (default 20). */
+                limit?: number;
+                /** @description `nextCursor` of the previous page. */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["SimulationPage"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "simulations.create": {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                "Idempotency-Key"?: string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        /** @description JSON, at most 4194304 bytes. */
+        requestBody: {
+            content: {
+                "application/json": components["schemas"]["SimulationRequest"];
+            };
+        };
+        responses: {
+            /** @description Queued; Location is where to read it. */
+            202: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    /** @description Where the resource is read from now on. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Simulation"];
+                };
+            };
+            /** @description The request could not be read. The body is not valid JSON, or a header is malformed. Fix the syntax and send it again. */
+            400: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request conflicts with one in progress. A request with the same Idempotency-Key is still running. Retry after it finishes. */
+            409: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request body is too large. Bodies are limited in size; split the work into several requests. */
+            413: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body must be JSON. Send `Content-Type: application/json`. */
+            415: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /**
+             * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
+             *
+             *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
+             */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /**
+             * @description `/problems/rate-limited`: Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window.
+             *
+             *     `/problems/job-limit`: Too many jobs at once. The organisation has as many simulations and simulated claims queued or running as it may (`limit`). Wait for one to end, or cancel one, and send again.
+             */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "simulations.get": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The simulation's id (`sim-` and 16 characters). */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Simulation"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such resource. The path or the resource does not exist, or it belongs to another organisation. */
+            404: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "simulations.cancel": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The simulation's id (`sim-` and 16 characters). */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Ended, or already over. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Simulation"];
+                };
+            };
+            /** @description Running: its runner ends it within about a second. */
+            202: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    /** @description Where the resource is read from now on. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Simulation"];
+                };
+            };
+            /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
+            401: {
+                headers: {
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
+            403: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No such resource. The path or the resource does not exist, or it belongs to another organisation. */
+            404: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond. */
+            422: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    "simulations.events": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                /** @description The simulation's id (`sim-` and 16 characters). */
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success. */
+            200: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "text/event-stream": string;
                 };
             };
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
