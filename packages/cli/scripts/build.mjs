@@ -8,6 +8,7 @@ process.chdir(fileURLToPath(new URL("..", import.meta.url)));
 rmSync("dist", { recursive: true, force: true });
 const outfile = "dist/paritas-claims.mjs";
 await build({
+  absWorkingDir: process.cwd(),
   entryPoints: ["src/main.ts"],
   outfile,
   bundle: true,
