@@ -47,3 +47,7 @@ export function claimLabels(db: Db, orgId: number, limit: number) {
     .limit(limit)
     .execute();
 }
+
+/** Write a pending claim's verdict, once: a claim already decided is left as it is. */
+export const settleClaim = (db: Db, id: string, verdict: Claim["verdict"], outcome: string, decidedAt: string) =>
+  db.updateTable("claims").set({ verdict, outcome, decided_at: decidedAt }).where("id", "=", id).where("verdict", "=", "pending").execute();

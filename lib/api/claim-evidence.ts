@@ -5,7 +5,10 @@ import { InputError } from "@/lib/core/errors";
 import { QAM_ORDERS, qfunc, uncodedErrorRates, type Modulation } from "@/lib/core/modulation";
 import { clopperPearsonLower, clopperPearsonUpper } from "@/lib/core/stats/binomial-interval";
 import { MAX_ALLOWED_ERRORS, moreErrorFreeBits } from "@/lib/core/stats/test-length";
+import { MAX_UNCODED_FRAME_BITS } from "@/lib/core/sim/engine";
+import { confidenceSequence, SEQUENTIAL_METHOD, sequentialPlan } from "@/lib/core/stats/sequential";
 import { codeWork } from "./code-work";
+import { MAX_BITS_PER_POINT, MAX_SECONDS_PER_POINT, simChannel } from "./simulation-spec";
 import { codeSpec, type CodeSpec } from "./code-spec";
 import { resolveCode } from "./codes";
 import { at } from "./endpoint";
@@ -98,7 +101,25 @@ export const measuredEvidence = z
   .refine((e) => e.errors <= e.trials, { path: ["errors"], message: "There cannot be more errors than trials (bits or frames tested)." })
   .meta({ description: "Decide from the caller's own counts, by one-sided Clopper–Pearson bounds at the claim's confidence." });
 
+export const simulatedEvidence = z
+  .strictObject({
+    mode: z.literal("simulated"),
+    code: codeSpec.optional().meta({ description: "The code; left out for an uncoded link." }),
+    frameBits: z.number().int().min(1).max(MAX_UNCODED_FRAME_BITS).optional().meta({ description: "Uncoded only: bits per frame (default 1)." }),
+    channel: simChannel,
+    at: z.number().min(-20).max(80).meta({ description: "The operating point: p on the BSC, ε on the BEC, Eb/N0 in dB on AWGN." }),
+    budget: z
+      .strictObject({
+        maxBits: z.number().int().min(1).max(MAX_BITS_PER_POINT).default(2 ** 36).meta({ description: "Most information bits to simulate before calling the claim inconclusive (default 2^36 ≈ 6.9·10^10, at most 2^40)." }),
+        maxSeconds: z.number().gt(0).max(MAX_SECONDS_PER_POINT).default(300).meta({ description: `Most computing time, in seconds (default 300, at most ${MAX_SECONDS_PER_POINT}).` }),
+      })
+      .default({ maxBits: 2 ** 36, maxSeconds: 300 }),
+    seed: z.number().int().min(0).max(0xffffffff).optional().meta({ description: "32-bit seed; drawn and returned when left out." }),
+  })
+  .meta({ description: "Decide by simulation: a job that stops as soon as the claim is decided at its confidence (a rule valid under this stopping), or when its budget ends (inconclusive)." });
+
 export type AnalyticEvidence = z.output<typeof analyticEvidence>;
+export type SimulatedEvidence = z.output<typeof simulatedEvidence>;
 export type MeasuredEvidence = z.output<typeof measuredEvidence>;
 
 export type Verdict = "supported" | "refuted" | "inconclusive";
@@ -233,4 +254,59 @@ export function decideAnalytic(target: Target, e: AnalyticEvidence): Decision {
     details,
     reasoning: `${how[0]!.toUpperCase()}${how.slice(1)}: the ${METRIC_WORDS[target.metric]} is ${basis} ${fmt(rate)}, ${holds ? "within" : "above"} the target ${fmt(target.atMost)}.`,
   };
+}
+
+/** The simulation a simulated claim runs: one point, its budget, and the sequential rule that stops it once decided. */
+export function claimSimulation(target: Target, confidence: number, e: SimulatedEvidence, seed: number) {
+  if (e.code && target.metric === "ber") {
+    throw new InputError(
+      "A simulated claim on a coded link is decided on its frame error rate: bit errors come in bursts inside failed frames, so counting bits as independent trials would overstate the confidence. " +
+        "Set the target's metric to `fer` (BER ≤ FER, so a supported FER claim at the same bound also supports the BER).",
+      ["target", "metric"],
+    );
+  }
+  if (target.atMost > 0.5) throw new InputError("A simulated claim's target is at most 0.5.", ["target"]);
+  if (e.channel.type !== "awgn" && (e.at < 0 || e.at > 1)) throw new InputError(`On the ${e.channel.type.toUpperCase()} the operating point is a probability from 0 to 1.`, ["evidence", "at"]);
+  if (e.frameBits !== undefined && e.code) throw new InputError("A coded frame is one codeword: leave `frameBits` out.", ["evidence", "frameBits"]);
+  return {
+    ...(e.code ? { code: e.code } : {}),
+    ...(e.frameBits !== undefined ? { frameBits: e.frameBits } : {}),
+    channel: e.channel,
+    points: [e.at],
+    stop: { maxBits: e.budget.maxBits, maxSeconds: e.budget.maxSeconds },
+    confidence,
+    seed,
+    gapSkipping: true,
+    decide: { metric: target.metric, target: target.atMost, confidence },
+  };
+}
+
+/**
+ * A finished simulation's verdict: what the sequential rule decided, or inconclusive when the budget ended first
+ * (or the job was cancelled or failed); the interval is the confidence sequence at the end (Howard et al. 2021).
+ */
+export function decideSimulated(
+  target: Target,
+  confidence: number,
+  job: { id: string; status: string; reason: string | null; seed: number; errors: number; trials: number; stoppedBy: string | null },
+): Decision {
+  const unit = target.metric === "ber" ? "bits" : "frames";
+  const cs = job.trials > 0 ? confidenceSequence(sequentialPlan(target.atMost, confidence), job.errors, job.trials) : { lower: 0, upper: 1 };
+  const seen = `${job.errors.toLocaleString("en")} ${job.errors === 1 ? "error" : "errors"} in ${job.trials.toLocaleString("en")} simulated ${unit}`;
+  const base = {
+    rate: job.trials > 0 ? job.errors / job.trials : 0,
+    exact: false,
+    interval: { lower: cs.lower, upper: cs.upper, method: SEQUENTIAL_METHOD },
+    details: { unit, simulation: job.id, seed: job.seed, stoppedBy: job.stoppedBy ?? job.status },
+  };
+  const words = METRIC_WORDS[target.metric];
+  if (job.stoppedBy === "decided:supported") {
+    return { ...base, verdict: "supported", reasoning: `${seen} put the ${words} at most ${fmt(cs.upper)} at ${pct(confidence)} confidence (valid however early the run stopped), within the target ${fmt(target.atMost)}.` };
+  }
+  if (job.stoppedBy === "decided:refuted") {
+    return { ...base, verdict: "refuted", reasoning: `${seen} put the ${words} at least ${fmt(cs.lower)} at ${pct(confidence)} confidence (valid however early the run stopped), above the target ${fmt(target.atMost)}.` };
+  }
+  const why =
+    job.status === "cancelled" ? "the simulation was cancelled" : job.status === "failed" ? `the simulation failed (${job.reason ?? "no reason given"})` : "the budget ended";
+  return { ...base, verdict: "inconclusive", reasoning: `${seen} leave the ${words} between ${fmt(cs.lower)} and ${fmt(cs.upper)}, which includes the target ${fmt(target.atMost)}; ${why} before the claim was decided.` };
 }

@@ -34,13 +34,13 @@ describe("every documented request example runs", () => {
     expect(parsed.success, parsed.error?.message).toBe(true);
   });
 
-  it.each(cases)("$label → its success status with a body that passes the output schema", async ({ e, ex }) => {
+  it.each(cases)("$label → a documented success status with a body that passes the output schema", async ({ e, ex }) => {
     const url = `/api/v1${e.path}`;
     const res =
       e.method === "GET"
         ? await getQuery(url, Object.fromEntries(Object.entries(ex.value as Json).map(([k, v]) => [k, String(v)])), auth)
         : await postJson(url, ex.value, auth);
-    expect(res.status, res.text).toBe(successOf(e));
+    expect(Object.keys(e.statuses ?? { 200: "" }), res.text).toContain(String(res.status));
     expect(res.headers["content-type"]).toMatch(/^application\/json/);
     const out = e.output.safeParse(res.body);
     expect(out.success, out.error?.message).toBe(true);

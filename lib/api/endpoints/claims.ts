@@ -1,10 +1,16 @@
 import { z } from "zod";
-import { findClaim, insertClaim, listClaims } from "@/db/queries/claims";
+import { randomInt } from "node:crypto";
+import type { Db } from "@/db";
+import { findClaim, insertClaim, listClaims, settleClaim } from "@/db/queries/claims";
+import { findJob } from "@/db/queries/jobs";
 import type { Claim } from "@/db/schema";
 import { InputError } from "@/lib/core/errors";
 import { newJobId, JOB_ID_PATTERN } from "@/lib/jobs/ids";
-import { analyticEvidence, decideAnalytic, decideMeasured, measuredEvidence, resolveTarget, targetInput, type Decision, type Target } from "../claim-evidence";
+import { analyticEvidence, claimSimulation, decideAnalytic, decideMeasured, decideSimulated, measuredEvidence, resolveTarget, simulatedEvidence, targetInput, type Decision, type Target } from "../claim-evidence";
+import { databaseQueue } from "@/lib/jobs/queue";
+import { trialsOf, type SimulationJobInput, type SimulationProgress } from "@/lib/jobs/simulation-kind";
 import { at, defineDataEndpoint, Reply } from "../endpoint";
+import { checkActiveJobs, checkSimulation, SIMULATION_KIND } from "./simulations";
 import { ApiError } from "../errors";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "../pagination";
 import { caution } from "../schemas";
@@ -35,7 +41,7 @@ const input = z
     statement: z.string().max(300).optional().meta({ description: "The claim in the team's own words, up to 300 characters (kept with it, shown in the history)." }),
     target: targetInput,
     confidence,
-    evidence: z.discriminatedUnion("mode", [analyticEvidence, measuredEvidence]).meta({ id: "ClaimEvidence" }),
+    evidence: z.discriminatedUnion("mode", [analyticEvidence, measuredEvidence, simulatedEvidence]).meta({ id: "ClaimEvidence" }),
   })
   .meta({ id: "ClaimRequest" });
 
@@ -52,17 +58,22 @@ const output = z
     decidedAt: z.string().nullable(),
     target: z.object({ metric: z.enum(["ber", "fer"]), atMost: z.number(), preset: z.string().optional() }),
     confidence: z.number(),
-    mode: z.enum(["analytic", "measured"]),
-    verdict: z.enum(["supported", "refuted", "inconclusive"]),
-    rate: z.number().meta({ description: "The rate the evidence gives: a formula's value, or the observed errors ÷ trials." }),
+    mode: z.enum(["analytic", "measured", "simulated"]),
+    verdict: z.enum(["pending", "supported", "refuted", "inconclusive"]).meta({ description: "`pending` while a simulated claim's simulation runs." }),
+    rate: z.number().nullable().meta({ description: "The rate the evidence gives: a formula's value, or errors ÷ trials, measured or simulated; null while pending." }),
     exact: z.boolean().meta({ description: "Whether `rate` is exact under the stated model; false for measured counts and for an estimate formula." }),
     interval: z
       .object({ lower: z.number(), upper: z.number(), method: z.string() })
-      .meta({ description: "Bounds on the rate behind the verdict: the one-sided bounds at the claim's confidence for measured counts; the rate itself for a formula." }),
+      .nullable()
+      .meta({
+        description:
+          "Bounds on the rate behind the verdict: the one-sided bounds at the claim's confidence for measured counts; the confidence sequence for a simulation; the rate itself for a formula; null while pending.",
+      }),
     reasoning: z.string().meta({ description: "The verdict in one sentence." }),
     details: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])).meta({ description: "How the evidence was read (the code's n, k, t; the channel's bit error probability; …)." }),
     moreTrialsToDecide: z.number().optional().meta({ description: "Inconclusive measured claims: error-free bits (or frames) beyond those tested that would support the claim." }),
     evidence: z.record(z.string(), z.unknown()).meta({ description: "The evidence as submitted." }),
+    simulation: z.string().optional().meta({ description: "A simulated claim's simulation: GET it (or its /events) to watch it." }),
     caution: z.string(),
   })
   .meta({ id: "Claim" });
@@ -85,6 +96,10 @@ const EXAMPLES = {
     summary: "Uncoded QPSK reaches BER 1e-6 at 10.6 dB",
     value: { label: "uplink/main", target: { preset: "data-strict" }, evidence: { mode: "analytic", channel: { type: "awgn", modulation: "qpsk", ebN0Db: 10.6 } } },
   },
+  simulated: {
+    summary: "By simulation: does a BSC with p = 1e-10 keep BER ≤ 1e-9? (202, decided in seconds)",
+    value: { label: "backhaul/fw-5.0.2", target: { metric: "ber", atMost: 1e-9 }, evidence: { mode: "simulated", channel: { type: "bsc" }, at: 1e-10 } },
+  },
 } satisfies Record<string, { summary: string; value: z.input<typeof input> }>;
 
 interface Stored {
@@ -94,16 +109,35 @@ interface Stored {
 }
 
 export function present(row: Claim): Out {
-  const { request, target, decision } = { request: JSON.parse(row.request) as Input, ...(JSON.parse(row.outcome!) as Omit<Stored, "request">) };
-  return {
+  const request = JSON.parse(row.request) as Input;
+  const common = {
     id: row.id,
     label: row.label,
     ...(request.statement !== undefined ? { statement: request.statement } : {}),
     createdAt: row.created_at,
     decidedAt: row.decided_at,
-    target,
     confidence: request.confidence,
     mode: request.evidence.mode,
+    evidence: request.evidence as Record<string, unknown>,
+    ...(row.job_id ? { simulation: `/simulations/${row.job_id}` } : {}),
+    caution,
+  };
+  if (row.verdict === "pending" || !row.outcome) {
+    return {
+      ...common,
+      target: resolveTarget(request.target),
+      verdict: "pending",
+      rate: null,
+      exact: false,
+      interval: null,
+      reasoning: "The simulation is running; read this claim again, or follow the simulation, for the verdict.",
+      details: {},
+    };
+  }
+  const { target, decision } = JSON.parse(row.outcome) as Omit<Stored, "request">;
+  return {
+    ...common,
+    target,
     verdict: decision.verdict,
     rate: decision.rate,
     exact: decision.exact,
@@ -111,9 +145,24 @@ export function present(row: Claim): Out {
     reasoning: decision.reasoning,
     details: decision.details,
     ...(decision.moreTrialsToDecide !== undefined ? { moreTrialsToDecide: decision.moreTrialsToDecide } : {}),
-    evidence: request.evidence as Record<string, unknown>,
-    caution,
   };
+}
+
+/** A pending claim whose simulation has ended gets its verdict now, once (the first read after the end writes it). */
+async function settle(db: Db, row: Claim): Promise<Claim> {
+  if (row.verdict !== "pending" || !row.job_id) return row;
+  const job = await findJob(db, row.org_id, row.job_id);
+  if (!job || job.status === "queued" || job.status === "running") return row;
+  const request = JSON.parse(row.request) as Input;
+  const target = resolveTarget(request.target);
+  const input = JSON.parse(job.input) as SimulationJobInput;
+  const point = (JSON.parse(job.result ?? job.progress ?? "null") as SimulationProgress | null)?.points[0];
+  const { errors, trials } = point ? trialsOf(input.decide!, point.counts) : { errors: 0, trials: 0 };
+  const decision = decideSimulated(target, request.confidence, { id: job.id, status: job.status, reason: job.reason, seed: input.seed, errors, trials, stoppedBy: point?.stoppedBy ?? null });
+  const decidedAt = job.finished_at ?? new Date().toISOString();
+  const outcome = JSON.stringify({ target, decision });
+  await settleClaim(db, row.id, decision.verdict, outcome, decidedAt);
+  return { ...row, verdict: decision.verdict, outcome, decided_at: decidedAt };
 }
 
 /** The reference's example answer: the "rig" request example, decided as a call would decide it, under a made-up id and time. */
@@ -139,17 +188,32 @@ export const createClaim = defineDataEndpoint({
     "its FER exact under bounded-distance decoding up to t = ⌊(dmin − 1)/2⌋ and its BER by an estimate (the verdict then says `exact: false`). " +
     "`measured` evidence is your own counts (trials and errors): supported when the one-sided Clopper–Pearson upper bound at the claim's confidence is within the target, " +
     "refuted when the lower bound is above it, else inconclusive with the error-free trials that would decide it. " +
-    "Answers 201 with the claim and Location. Cost: 1 unit.",
+    "`simulated` evidence starts a seeded simulation at one operating point (a job, as POST /simulations) that stops as soon as the claim is decided at its confidence — " +
+    "by an anytime-valid confidence sequence, so stopping early keeps the chance of a wrong verdict within 1 − confidence — or when its budget ends (inconclusive); " +
+    "a coded link is decided on its FER. Answers 201 with the decided claim and Location, or 202 with a pending simulated claim and Location: read it again for the verdict. " +
+    "Cost: 1 unit, and a simulated claim's simulation as a simulation's.",
   input,
   output,
-  statuses: { 201: "The claim, decided; Location is where it is kept." },
+  statuses: { 201: "The claim, decided; Location is where it is kept.", 202: "A simulated claim: pending while its simulation runs; Location is where its verdict will be." },
+  problems: ["job-limit", "work-limit", "server-busy"],
   examples: EXAMPLES,
   illustration: { summary: ILLUSTRATIVE, value: illustrate() },
   cost: 1,
   handler: async (req, { db, principal }) => {
     const target = resolveTarget(req.target);
-    const decision = at([], () => (req.evidence.mode === "analytic" ? decideAnalytic(target, req.evidence) : decideMeasured(target, req.confidence, req.evidence)));
     const now = new Date().toISOString();
+    if (req.evidence.mode === "simulated") {
+      const evidence = req.evidence;
+      const job = at([], () => claimSimulation(target, req.confidence, evidence, evidence.seed ?? randomInt(0, 2 ** 32 - 1))) as SimulationJobInput;
+      await checkActiveJobs(db, principal.orgId);
+      await at(["evidence"], () => checkSimulation(job));
+      const jobId = newJobId("sim");
+      await databaseQueue(db).enqueue({ id: jobId, orgId: principal.orgId, apiKeyId: principal.keyId, kind: SIMULATION_KIND, input: job });
+      const row: Claim = { id: newJobId("clm"), org_id: principal.orgId, api_key_id: principal.keyId, label: req.label, mode: "simulated", verdict: "pending", request: JSON.stringify({ ...req, evidence: { ...evidence, seed: job.seed } }), outcome: null, job_id: jobId, created_at: now, decided_at: null };
+      await insertClaim(db, row);
+      return new Reply(202, present(row), `/claims/${row.id}`);
+    }
+    const decision = at([], () => (req.evidence.mode === "analytic" ? decideAnalytic(target, req.evidence as never) : decideMeasured(target, req.confidence, req.evidence as never)));
     const row: Claim = {
       id: newJobId("clm"),
       org_id: principal.orgId,
@@ -185,7 +249,7 @@ export const getClaim = defineDataEndpoint({
   handler: async (_q, { db, principal, params }) => {
     const row = await findClaim(db, principal.orgId, params.id!);
     if (!row) throw new ApiError("not-found", `There is no claim ${params.id} in this organisation.`);
-    return present(row);
+    return present(await settle(db, row));
   },
 });
 
@@ -220,6 +284,7 @@ export const listClaimsEndpoint = defineDataEndpoint({
     const rows = await listClaims(db, principal.orgId, { label: q.label, verdict: q.verdict, limit: q.limit + 1, before });
     const page = rows.slice(0, q.limit);
     const last = page.at(-1);
-    return { data: page.map(present), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+    const settled = await Promise.all(page.map((r) => settle(db, r)));
+    return { data: settled.map(present), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
   },
 });

@@ -209,7 +209,7 @@ export interface paths {
         put?: never;
         /**
          * State an error-rate claim and get its verdict
-         * @description A claim: under a label (firmware version, branch, build), the rate a link keeps at most (`target`: a BER or FER bound, or a named preset), and the evidence that decides it. `analytic` evidence decides at once from a formula: an uncoded BSC or AWGN link (BPSK, QPSK, M-PSK, square M-QAM), or a code on a BSC or on AWGN with BPSK/QPSK hard decisions, its FER exact under bounded-distance decoding up to t = ⌊(dmin − 1)/2⌋ and its BER by an estimate (the verdict then says `exact: false`). `measured` evidence is your own counts (trials and errors): supported when the one-sided Clopper–Pearson upper bound at the claim's confidence is within the target, refuted when the lower bound is above it, else inconclusive with the error-free trials that would decide it. Answers 201 with the claim and Location. Cost: 1 unit.
+         * @description A claim: under a label (firmware version, branch, build), the rate a link keeps at most (`target`: a BER or FER bound, or a named preset), and the evidence that decides it. `analytic` evidence decides at once from a formula: an uncoded BSC or AWGN link (BPSK, QPSK, M-PSK, square M-QAM), or a code on a BSC or on AWGN with BPSK/QPSK hard decisions, its FER exact under bounded-distance decoding up to t = ⌊(dmin − 1)/2⌋ and its BER by an estimate (the verdict then says `exact: false`). `measured` evidence is your own counts (trials and errors): supported when the one-sided Clopper–Pearson upper bound at the claim's confidence is within the target, refuted when the lower bound is above it, else inconclusive with the error-free trials that would decide it. `simulated` evidence starts a seeded simulation at one operating point (a job, as POST /simulations) that stops as soon as the claim is decided at its confidence — by an anytime-valid confidence sequence, so stopping early keeps the chance of a wrong verdict within 1 − confidence — or when its budget ends (inconclusive); a coded link is decided on its FER. Answers 201 with the decided claim and Location, or 202 with a pending simulated claim and Location: read it again for the verdict. Cost: 1 unit, and a simulated claim's simulation as a simulation's.
          *
          *     Scope: `claims`.
          */
@@ -1201,19 +1201,22 @@ export interface components {
             };
             confidence: number;
             /** @enum {string} */
-            mode: "analytic" | "measured";
-            /** @enum {string} */
-            verdict: "supported" | "refuted" | "inconclusive";
-            /** @description The rate the evidence gives: a formula's value, or the observed errors ÷ trials. */
-            rate: number;
+            mode: "analytic" | "measured" | "simulated";
+            /**
+             * @description `pending` while a simulated claim's simulation runs.
+             * @enum {string}
+             */
+            verdict: "pending" | "supported" | "refuted" | "inconclusive";
+            /** @description The rate the evidence gives: a formula's value, or errors ÷ trials, measured or simulated; null while pending. */
+            rate: number | null;
             /** @description Whether `rate` is exact under the stated model; false for measured counts and for an estimate formula. */
             exact: boolean;
-            /** @description Bounds on the rate behind the verdict: the one-sided bounds at the claim's confidence for measured counts; the rate itself for a formula. */
+            /** @description Bounds on the rate behind the verdict: the one-sided bounds at the claim's confidence for measured counts; the confidence sequence for a simulation; the rate itself for a formula; null while pending. */
             interval: {
                 lower: number;
                 upper: number;
                 method: string;
-            };
+            } | null;
             /** @description The verdict in one sentence. */
             reasoning: string;
             /** @description How the evidence was read (the code's n, k, t; the channel's bit error probability; …). */
@@ -1226,6 +1229,8 @@ export interface components {
             evidence: {
                 [key: string]: unknown;
             };
+            /** @description A simulated claim's simulation: GET it (or its /events) to watch it. */
+            simulation?: string;
             caution: string;
         };
         ClaimRequest: {
@@ -1272,6 +1277,36 @@ export interface components {
             trials: number;
             /** @description Errors observed among them: bit errors or frame errors. */
             errors: number;
+        } | {
+            /** @enum {string} */
+            mode: "simulated";
+            /** @description The code; left out for an uncoded link. */
+            code?: components["schemas"]["RepetitionCode"] | components["schemas"]["ParityCode"] | components["schemas"]["HammingCode"] | components["schemas"]["GolayCode"] | components["schemas"]["LinearCode"] | components["schemas"]["CrcCode"] | components["schemas"]["BchCode"] | components["schemas"]["ReedSolomonCode"];
+            /** @description Uncoded only: bits per frame (default 1). */
+            frameBits?: number;
+            channel: components["schemas"]["SimulationChannel"];
+            /** @description The operating point: p on the BSC, ε on the BEC, Eb/N0 in dB on AWGN. */
+            at: number;
+            /**
+             * @default {
+             *       "maxBits": 68719476736,
+             *       "maxSeconds": 300
+             *     }
+             */
+            budget: {
+                /**
+                 * @description Most information bits to simulate before calling the claim inconclusive (default 2^36 ≈ 6.9·10^10, at most 2^40).
+                 * @default 68719476736
+                 */
+                maxBits: number;
+                /**
+                 * @description Most computing time, in seconds (default 300, at most 3600).
+                 * @default 300
+                 */
+                maxSeconds: number;
+            };
+            /** @description 32-bit seed; drawn and returned when left out. */
+            seed?: number;
         };
         ClaimChannel: {
             /** @enum {string} */
@@ -1290,6 +1325,27 @@ export interface components {
             order?: number;
             /** @description Eb/N0 per information bit, in dB, −20 to 80. */
             ebN0Db: number;
+        };
+        SimulationChannel: {
+            /** @enum {string} */
+            type: "bsc";
+        } | {
+            /** @enum {string} */
+            type: "bec";
+        } | {
+            /** @enum {string} */
+            type: "awgn";
+            /**
+             * @description BPSK, or Gray-mapped QPSK (two BPSK channels: the same bit error rate per Eb/N0).
+             * @enum {string}
+             */
+            modulation: "bpsk" | "qpsk";
+            /**
+             * @description `hard`: each bit decided on its own, then the code's decoder; `soft`: maximum-likelihood decoding by correlation with every codeword (binary codes with k ≤ 12).
+             * @default hard
+             * @enum {string}
+             */
+            decisions: "hard" | "soft";
         };
         ClaimPage: {
             data: components["schemas"]["Claim"][];
@@ -1390,27 +1446,6 @@ export interface components {
              * @default true
              */
             gapSkipping: boolean;
-        };
-        SimulationChannel: {
-            /** @enum {string} */
-            type: "bsc";
-        } | {
-            /** @enum {string} */
-            type: "bec";
-        } | {
-            /** @enum {string} */
-            type: "awgn";
-            /**
-             * @description BPSK, or Gray-mapped QPSK (two BPSK channels: the same bit error rate per Eb/N0).
-             * @enum {string}
-             */
-            modulation: "bpsk" | "qpsk";
-            /**
-             * @description `hard`: each bit decided on its own, then the code's decoder; `soft`: maximum-likelihood decoding by correlation with every codeword (binary codes with k ≤ 12).
-             * @default hard
-             * @enum {string}
-             */
-            decisions: "hard" | "soft";
         };
         /**
          * @description Whichever comes first ends a point; the result says which. One of `maxBits` and `maxFrames` is needed (default maxBits 10^9), so that a point without errors ends.
@@ -3040,6 +3075,25 @@ export interface operations {
                     "application/json": components["schemas"]["Claim"];
                 };
             };
+            /** @description A simulated claim: pending while its simulation runs; Location is where its verdict will be. */
+            202: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units charged for this call. */
+                    "X-Compute-Units"?: number;
+                    /** @description Where the resource is read from now on. */
+                    Location?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Claim"];
+                };
+            };
             /** @description The request could not be read. The body is not valid JSON, or a header is malformed. Fix the syntax and send it again. */
             400: {
                 headers: {
@@ -3130,6 +3184,8 @@ export interface operations {
              * @description `/problems/validation-failed`: The request has invalid fields. `errors` lists each invalid field as a JSON pointer with a message, at most 20 (in a batch, each bad word once); `omittedErrors` counts those beyond.
              *
              *     `/problems/idempotency-key-reused`: Idempotency-Key reused with another body. An Idempotency-Key belongs to one request body. Use a new key for a new request.
+             *
+             *     `/problems/work-limit`: The request asks for more work than one call may do. `limit` names the quantity, what the request needs and what one call allows; the detail says how to ask for less (fewer words, a smaller code, or an option that skips the costly part).
              */
             422: {
                 headers: {
@@ -3145,8 +3201,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window. */
+            /**
+             * @description `/problems/rate-limited`: Too many requests. Wait for the number of seconds in `Retry-After`. The RateLimit headers show the current window.
+             *
+             *     `/problems/job-limit`: Too many jobs at once. The organisation has as many simulations and simulated claims queued or running as it may (`limit`). Wait for one to end, or cancel one, and send again.
+             */
             429: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Seconds to wait (RFC 9110). */
+                    "Retry-After"?: number;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The compute pool is full. Every worker is busy and the queue is at its bound. Retry after the seconds in `Retry-After`. */
+            503: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
                     RateLimit?: string;
