@@ -266,7 +266,7 @@ describe("pending claims against a stand-in server", { timeout: 60_000 }, () => 
   let decideAfter = 2;
   let gets = 0;
   const ID = "clm-0000pending0001";
-  const pending = { id: ID, label: "fw-2.6.0", createdAt: "2026-12-03T10:00:00.000Z", decidedAt: null, target: { metric: "ber", atMost: 1e-5 }, confidence: 0.95, mode: "simulated", verdict: "pending", simulation: "/api/v1/simulations/sim-0000pending0001", evidence: {}, caution: "" };
+  const pending = { id: ID, label: "fw-2.6.0", createdAt: "2026-12-03T10:00:00.000Z", decidedAt: null, target: { metric: "fer", atMost: 1e-4 }, confidence: 0.95, mode: "simulated", verdict: "pending", rate: null, exact: false, interval: null, reasoning: "The simulation is running.", details: {}, simulation: "/simulations/sim-0000pending0001", evidence: {}, caution: "" };
 
   beforeAll(async () => {
     fake = createServer((req, res) => {
@@ -281,8 +281,8 @@ describe("pending claims against a stand-in server", { timeout: 60_000 }, () => 
         gets++;
         const body =
           gets < decideAfter
-            ? { ...pending, progress: gets / decideAfter }
-            : { ...pending, verdict: "supported", decidedAt: "2026-12-03T10:00:05.000Z", rate: 2e-6, exact: false, interval: { lower: 1e-6, upper: 4e-6, method: "a confidence sequence" }, reasoning: "The simulation put the BER at most 4e-6.", details: {} };
+            ? pending
+            : { ...pending, verdict: "supported", decidedAt: "2026-12-03T10:00:05.000Z", rate: 2e-5, exact: false, interval: { lower: 1e-5, upper: 4e-5, method: "a confidence sequence" }, reasoning: "The simulation put the FER at most 4e-5.", details: {} };
         res.writeHead(200, { "content-type": "application/json" });
         res.end(JSON.stringify(body));
       });
@@ -304,14 +304,13 @@ describe("pending claims against a stand-in server", { timeout: 60_000 }, () => 
     ]);
     // Not a terminal: one plain line per change of state (CI logs), none rewritten in place.
     expect(r.stderr.split("\n").filter(Boolean)).toEqual([
-      "simulated hamming: pending (simulation /api/v1/simulations/sim-0000pending0001)",
-      "simulated hamming: pending 50 % (simulation /api/v1/simulations/sim-0000pending0001)",
+      "simulated hamming: pending (simulation /simulations/sim-0000pending0001)",
       expect.stringMatching(/^simulated hamming: supported after \d+ s$/),
     ]);
     expect(r.stderr).not.toContain("\r");
-    expect(r.stdout).toMatch(/simulated hamming\s+fw-2\.6\.0\s+supported\s+2e-6\s+\[1e-6, 4e-6\]/);
+    expect(r.stdout).toMatch(/simulated hamming\s+fw-2\.6\.0\s+supported\s+2e-5\s+\[1e-5, 4e-5\]/);
     const cases = expectJunitShape(readJunit(junit), { tests: 1, failures: 0, errors: 0, skipped: 0 });
-    expect(cases[0]!["system-out"]).toContain("simulation: /api/v1/simulations/sim-0000pending0001");
+    expect(cases[0]!["system-out"]).toContain("simulation: /simulations/sim-0000pending0001");
   });
 
   it("a claim still pending when the wait ends: exit 1 and a JUnit <error>", async () => {

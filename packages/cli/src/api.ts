@@ -12,10 +12,16 @@ export type PlanRequest = paths["/tests/plan"]["post"]["requestBody"]["content"]
 export type Plan = paths["/tests/plan"]["post"]["responses"][200]["content"]["application/json"];
 
 /**
- * A claim as the API answers it. A simulated claim is `pending` until its job decides it, and then links its
- * simulation; the generated types predate that mode, so these fields are widened here.
+ * A claim as the API answers it. A simulated claim is `pending`, with no rate or interval yet, until its job
+ * decides it, and links its simulation; the generated types predate that mode, so these fields are widened here.
  */
-export type ClaimView = Omit<DecidedClaim, "verdict" | "mode"> & { verdict: Verdict | "pending"; mode: string; simulation?: string };
+export type ClaimView = Omit<DecidedClaim, "verdict" | "mode" | "rate" | "interval"> & {
+  verdict: Verdict | "pending";
+  mode: string;
+  rate: number | null;
+  interval: DecidedClaim["interval"] | null;
+  simulation?: string;
+};
 
 export interface FieldProblem {
   pointer: string;

@@ -59,11 +59,9 @@ class Progress {
   }
 }
 
-/** A pending claim's state in words: its progress when the API reports one, and the simulation behind it. */
+/** A pending claim's state in words, naming the simulation behind it. */
 function pendingState(c: ClaimView): string {
-  const progress = (c as { progress?: unknown }).progress;
-  const share = typeof progress === "number" ? ` ${Math.round(progress * 100)} %` : "";
-  return `pending${share}${c.simulation ? ` (simulation ${c.simulation})` : ""}`;
+  return `pending${c.simulation ? ` (simulation ${c.simulation})` : ""}`;
 }
 
 function describeRefusal(loaded: LoadedClaims, index: number, e: RequestRefused): FileProblem[] {

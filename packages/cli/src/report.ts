@@ -50,13 +50,12 @@ export function claimsTable(outcomes: Outcome[]): string {
     ["name", "label", "verdict", "rate", "interval", "reasoning"],
     outcomes.map((o) => {
       const c = o.claim;
-      const decided = c && c.verdict !== "pending";
       return [
         o.name,
         o.label,
         verdictOf(o),
-        decided ? formatRate(c.rate) : "",
-        decided ? `[${formatRate(c.interval.lower)}, ${formatRate(c.interval.upper)}]` : "",
+        c?.rate != null ? formatRate(c.rate) : "",
+        c?.interval ? `[${formatRate(c.interval.lower)}, ${formatRate(c.interval.upper)}]` : "",
         shorten(o.timedOut ? `no verdict within the wait (claim ${c?.id ?? "?"})` : (c?.reasoning ?? ""), REASONING_WIDTH),
       ];
     }),
@@ -108,7 +107,7 @@ export function junitXml(suiteName: string, outcomes: Outcome[], policy: Policy,
     }
     const c = o.claim;
     const out = c
-      ? [`verdict: ${c.verdict}`, `claim: ${c.id}`, `label: ${c.label}`, ...(c.verdict !== "pending" ? [`rate: ${precise(c.rate)}`, `interval: [${precise(c.interval.lower)}, ${precise(c.interval.upper)}] (${c.interval.method})`] : []), ...(c.simulation ? [`simulation: ${c.simulation}`] : []), `reasoning: ${reasoning}`]
+      ? [`verdict: ${c.verdict}`, `claim: ${c.id}`, `label: ${c.label}`, ...(c.rate != null ? [`rate: ${precise(c.rate)}`] : []), ...(c.interval ? [`interval: [${precise(c.interval.lower)}, ${precise(c.interval.upper)}] (${c.interval.method})`] : []), ...(c.simulation ? [`simulation: ${c.simulation}`] : []), `reasoning: ${reasoning}`]
       : ["The API gave no answer for this claim."];
     tc.ele("system-out").txt(out.join("\n"));
   }
