@@ -79,6 +79,15 @@ export const IconBench = (p: P) => (
   </Icon>
 );
 
+/** Claims: a dashed bound with a falling error curve under it, and a tick. */
+export const IconClaims = (p: P) => (
+  <Icon {...p}>
+    <path d="M2.5 6.5h15" strokeDasharray="2 2" />
+    <path d="M3 3c1.5 6 4.5 10.5 9.5 12.5" />
+    <path d="m12 11.5 2 2 3.5-3.8" />
+  </Icon>
+);
+
 export const IconCopy = (p: P) => (
   <Icon {...p}>
     <rect x="7" y="7" width="9.5" height="9.5" rx="1.5" />

@@ -4,9 +4,11 @@ import type { KeyMode, Role } from "@/db/schema";
 import { insertApiKey } from "@/db/queries/api-keys";
 import { insertAudit, type AuditInput } from "@/db/queries/audit";
 import { findOrgBySlug } from "@/db/queries/orgs";
+import { analyticEvidence, decideAnalytic, decideMeasured, measuredEvidence, resolveTarget, targetInput } from "@/lib/api/claim-evidence";
 import { generateKey } from "@/lib/api/keys";
 import { allScopes } from "@/lib/api/scopes";
 import { hashPassword } from "@/lib/auth/passwords";
+import { newJobId } from "@/lib/jobs/ids";
 
 /**
  * The demo scenario: Brinewatch Buoys builds moored ocean-sensor buoys that report over a
@@ -57,6 +59,39 @@ const HISTORY = {
   internExpired: 5,
   relayRotated: 2.1,
 } as const;
+/**
+ * The firmware team's claims about the telemetry link, sent from CI with its key: days before the seed runs,
+ * label, what they said, target and evidence (the bench rig's counts travel through CI too). Release 2.4.0
+ * moved the buoys to a farther mooring, a noisier link (p from 1e-3 to 5e-3): its Hamming (7,4) claim is
+ * refuted, the switch to Golay (23,12) holds, and the rig's first long run was too short to decide BER ≤ 1e-9.
+ */
+const CLAIMS = [
+  {
+    days: 27.3,
+    label: "telemetry-fw/2.3.0",
+    statement: "Hamming (7,4) keeps frame errors under 1e-4 at the harbour mooring",
+    target: { metric: "fer", atMost: 1e-4 },
+    evidence: { mode: "analytic", code: { family: "hamming", r: 3 }, channel: { type: "bsc", p: 1e-3 } },
+  },
+  { days: 26.2, label: "telemetry-fw/2.3.0", statement: "Bench rig soak, one night", target: { preset: "data" }, evidence: { mode: "measured", trials: 1e9, errors: 0 } },
+  {
+    days: 14.4,
+    label: "telemetry-fw/2.4.0",
+    statement: "Hamming (7,4) still keeps frame errors under 1e-4 at the far mooring",
+    target: { metric: "fer", atMost: 1e-4 },
+    evidence: { mode: "analytic", code: { family: "hamming", r: 3 }, channel: { type: "bsc", p: 5e-3 } },
+  },
+  {
+    days: 13.1,
+    label: "telemetry-fw/2.4.0",
+    statement: "Golay (23,12) keeps frame errors under 1e-4 at the far mooring",
+    target: { metric: "fer", atMost: 1e-4 },
+    evidence: { mode: "analytic", code: { family: "golay" }, channel: { type: "bsc", p: 5e-3 } },
+  },
+  { days: 6.3, label: "telemetry-fw/2.4.0", statement: "Bench rig, five days at line rate", target: { metric: "ber", atMost: 1e-9 }, evidence: { mode: "measured", trials: 5e9, errors: 2 } },
+  { days: 1.2, label: "telemetry-fw/2.4.1", statement: "Bench rig, after the clock-recovery fix", target: { metric: "ber", atMost: 1e-9 }, evidence: { mode: "measured", trials: 3.2e9, errors: 0 } },
+] as const;
+
 /** The shore station's relay overlap: the old key works for a week after the rotation. */
 const RELAY_OVERLAP_HOURS = 7 * 24;
 
@@ -210,6 +245,18 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
           });
         }
       }
+    }
+    // The claims, decided as POST /claims decides them (the same parsing and decision functions), each a metered call of the CI key.
+    for (const [i, c] of CLAIMS.entries()) {
+      const request = { label: c.label, statement: c.statement, target: targetInput.parse(c.target), confidence: 0.95, evidence: c.evidence.mode === "analytic" ? analyticEvidence.parse(c.evidence) : measuredEvidence.parse(c.evidence) };
+      const target = resolveTarget(request.target);
+      const decision = request.evidence.mode === "analytic" ? decideAnalytic(target, request.evidence) : decideMeasured(target, request.confidence, request.evidence);
+      const at = ago(c.days);
+      await tx
+        .insertInto("claims")
+        .values({ id: newJobId("clm"), org_id: org.id, api_key_id: ci.id, label: c.label, mode: request.evidence.mode, verdict: decision.verdict, request: JSON.stringify(request), outcome: JSON.stringify({ target, decision }), job_id: null, created_at: at, decided_at: at })
+        .execute();
+      rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "claims.create", method: "POST", status: 201, units: 1, duration_ms: 2.5, request_id: `req_seedclaim${i}`, created_at: at, reported_at: null });
     }
     for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
     // Each key was last used at its latest call; keys without calls were never used.

@@ -2,6 +2,8 @@ import { consoleFetch } from "./fetcher";
 import type {
   AcceptedInvitation,
   AuditPage,
+  ClaimsPage,
+  ClaimVerdict,
   EndpointInfo,
   Invitation,
   IssuedKey,
@@ -16,6 +18,13 @@ import type {
   TryKey,
   UsageReport,
 } from "./types";
+
+export interface ClaimFilters {
+  label?: string;
+  verdict?: ClaimVerdict;
+  cursor?: string;
+  limit?: number;
+}
 
 /** Every console route the pages call, one function each. `org` is the org's slug. */
 
@@ -55,4 +64,7 @@ export const consoleApi = {
 
   audit: (org: string, f: { actor?: string; action?: string; cursor?: string; limit?: number }, signal?: AbortSignal) =>
     consoleFetch<AuditPage>(`${orgPath(org)}/audit${query({ actor: f.actor, action: f.action, cursor: f.cursor, limit: f.limit })}`, { signal }),
+
+  claims: (org: string, f: ClaimFilters, signal?: AbortSignal) =>
+    consoleFetch<ClaimsPage>(`${orgPath(org)}/claims${query({ label: f.label, verdict: f.verdict, cursor: f.cursor, limit: f.limit })}`, { signal }),
 };

@@ -25,6 +25,7 @@ export const SECTION_ROLES = {
   usage: ["owner", "developer", "billing"],
   audit: ["owner"],
   try: ["owner", "developer"],
+  claims: ["owner", "developer", "billing"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Section = keyof typeof SECTION_ROLES;

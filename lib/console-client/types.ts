@@ -9,6 +9,7 @@ import type { Role } from "@/db/schema";
 import { allScopes, scopeCatalogue } from "@/lib/api/scopes";
 import type { describeMe } from "@/lib/console/account";
 import type { listAuditEntries } from "@/lib/console/audit";
+import type { listOrgClaims } from "@/lib/console/claims";
 import type { acceptInvitation } from "@/lib/console/invitations";
 import type { createOrgKey, issueBenchCredential, rotateOrgKey } from "@/lib/console/keys";
 import type { listMembersOf, removeMember } from "@/lib/console/members";
@@ -41,6 +42,12 @@ export type UsageSums = UsageReport["totals"];
 
 export type AuditPage = Awaited<ReturnType<typeof listAuditEntries>>;
 export type AuditEntry = AuditPage["entries"][number];
+
+export type ClaimsPage = Awaited<ReturnType<typeof listOrgClaims>>;
+/** A claim as GET /api/v1/claims/{id} presents it, with the simulation job behind it (null when none). */
+export type ClaimItem = ClaimsPage["claims"][number];
+export type ClaimLabel = ClaimsPage["labels"][number];
+export type { ClaimVerdict } from "@/db/schema";
 
 export type AcceptedInvitation = Awaited<ReturnType<typeof acceptInvitation>>;
 

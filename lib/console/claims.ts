@@ -1,12 +1,12 @@
 import { z } from "zod";
 import type { Db } from "@/db";
 import { claimLabels, listClaims } from "@/db/queries/claims";
-import type { Org } from "@/db/schema";
+import type { ClaimVerdict, Org } from "@/db/schema";
 import { present } from "@/lib/api/endpoints/claims";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
 import { invalidField } from "./common";
 
-export const CLAIM_VERDICTS = ["pending", "supported", "refuted", "inconclusive"] as const;
+const CLAIM_VERDICTS = ["pending", "supported", "refuted", "inconclusive"] as const satisfies readonly ClaimVerdict[];
 
 export const claimsQuery = z.strictObject({
   label: z.string().min(1).max(120).optional(),

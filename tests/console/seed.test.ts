@@ -10,6 +10,7 @@ import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
 import type { Org } from "@/db/schema";
 import { verifyPassword } from "@/lib/auth/passwords";
 import { listAuditEntries } from "@/lib/console/audit";
+import { listOrgClaims } from "@/lib/console/claims";
 import { listOrgKeys } from "@/lib/console/keys";
 
 let db: Db;
@@ -159,11 +160,55 @@ describe("demo scenario", () => {
     }
   });
 
+  test("claims about the telemetry link: each verdict, the numbers behind them true, each made by a key that could then, as a metered call", async () => {
+    const claims = await db.selectFrom("claims").selectAll().where("org_id", "=", org.id).orderBy("created_at").execute();
+    expect(new Set(claims.map((c) => c.verdict))).toEqual(new Set(["supported", "refuted", "inconclusive"]));
+    expect(new Set(claims.map((c) => c.label)).size).toBeGreaterThanOrEqual(2);
+    const keys = new Map((await db.selectFrom("api_keys").selectAll().where("org_id", "=", org.id).execute()).map((k) => [k.id, k]));
+    const calls = await db.selectFrom("usage_events").selectAll().where("org_id", "=", org.id).where("endpoint", "=", "claims.create").execute();
+    expect(calls).toHaveLength(claims.length);
+    for (const c of claims) {
+      const key = keys.get(c.api_key_id!)!;
+      expect(key.scopes.split(" "), c.label).toContain("claims");
+      expect(key.created_at < c.created_at && (key.revoked_at === null || c.created_at < key.revoked_at)).toBe(true);
+      expect(Date.parse(c.created_at)).toBeLessThanOrEqual(now.getTime());
+      expect(c.decided_at).toBe(c.created_at);
+      expect(calls.filter((e) => e.api_key_id === c.api_key_id && e.created_at === c.created_at && e.status === 201 && e.units === 1)).toHaveLength(1);
+    }
+
+    // The numbers, against formulas written out here: a t-error-correcting code fails when more than t of n bits
+    // flip (binomial tail), and 0 errors in N bits bound the BER by 1 − 0.05^(1/N) ≈ −ln(0.05)/N at 95 % (rule of three, REFERENCES.md).
+    const choose = (n: number, j: number): number => (j === 0 ? 1 : (choose(n, j - 1) * (n - j + 1)) / j);
+    const fails = (n: number, t: number, p: number) => 1 - Array.from({ length: t + 1 }, (_, j) => choose(n, j) * p ** j * (1 - p) ** (n - j)).reduce((a, b) => a + b, 0);
+    const { claims: shown, labels } = await listOrgClaims(db, org, { limit: 100 });
+    expect(shown).toHaveLength(claims.length);
+    const near = (a: number, b: number) => Math.abs(a - b) / b < 1e-6;
+    for (const c of shown) {
+      const e = c.evidence as { mode: string; code?: { family: string }; channel?: { p: number }; trials?: number; errors?: number };
+      if (e.code?.family === "hamming") {
+        expect(near(c.rate!, fails(7, 1, e.channel!.p)), c.label).toBe(true);
+      } else if (e.code?.family === "golay") {
+        expect(near(c.rate!, fails(23, 3, e.channel!.p)), c.label).toBe(true);
+      } else if (e.errors === 0) {
+        expect(Math.abs(c.interval!.upper - -Math.log(0.05) / e.trials!) / c.interval!.upper).toBeLessThan(1e-6);
+      }
+      expect(c.verdict === "supported", `${c.label}: ${c.reasoning}`).toBe(c.rate! <= c.target.atMost && c.interval!.upper <= c.target.atMost);
+    }
+    // The story: Hamming (7,4) fails its target on the noisier link, Golay (23,12) holds, the rig's 2 errors in 5·10⁹ bits cannot decide BER ≤ 1e-9.
+    const of = (family: string, p: number) => shown.find((c) => (c.evidence as { code?: { family: string }; channel?: { p: number } }).code?.family === family && (c.evidence as { channel: { p: number } }).channel.p === p);
+    expect(of("hamming", 1e-3)?.verdict).toBe("supported");
+    expect(of("hamming", 5e-3)?.verdict).toBe("refuted");
+    expect(of("golay", 5e-3)?.verdict).toBe("supported");
+    expect(shown.find((c) => c.verdict === "inconclusive")?.moreTrialsToDecide).toBeGreaterThan(0);
+    // Each label's latest verdict is that of its newest claim.
+    for (const l of labels) expect(l.latestVerdict).toBe(shown.find((c) => c.label === l.label)!.verdict);
+  });
+
   test("seeding again changes nothing", async () => {
-    const count = async (t: "users" | "api_keys" | "usage_events" | "audit_log") =>
+    const count = async (t: "users" | "api_keys" | "usage_events" | "audit_log" | "claims") =>
       Number((await db.selectFrom(t).select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n);
-    const before = await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log")]);
+    const before = await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims")]);
     expect(await seedDemo(db)).toBe(org.id);
-    expect(await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log")])).toEqual(before);
+    expect(await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims")])).toEqual(before);
   });
 });
