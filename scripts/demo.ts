@@ -48,16 +48,30 @@ const server = spawn("node_modules/.bin/next", ["start", "-p", String(port)], {
     NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? base,
   },
 });
+// The job runner (simulations, simulated claims): its own process on the same database.
+const runner = spawn("node_modules/.bin/tsx", ["scripts/worker.ts"], { stdio: "inherit", detached: true, env: { ...process.env, PARITAS_DB_FILE: databaseFile() } });
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
-    try {
-      process.kill(-server.pid!, sig);
-    } catch {
-      // already stopped
+    for (const child of [server, runner]) {
+      try {
+        process.kill(-child.pid!, sig);
+      } catch {
+        // already stopped
+      }
     }
   });
 }
-server.on("exit", (code) => process.exit(code ?? 0));
+server.on("exit", (code) => {
+  try {
+    process.kill(-runner.pid!, "SIGTERM");
+  } catch {
+    // already stopped
+  }
+  process.exit(code ?? 0);
+});
+runner.on("exit", (code, signal) => {
+  if (signal !== "SIGTERM" && signal !== "SIGINT") console.error(`the job runner stopped (${code ?? signal}); simulations wait until \`npm run worker\` runs again`);
+});
 
 for (let i = 0; i < 120; i++) {
   try {
@@ -68,6 +82,7 @@ for (let i = 0; i < 120; i++) {
   await new Promise((r) => setTimeout(r, 500));
 }
 const body = JSON.stringify({ channel: "bsc", p: 0.11 });
+const claim = JSON.stringify({ label: "demo/fw-1.0.0", target: { metric: "fer", atMost: 1e-2 }, evidence: { mode: "simulated", code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, at: 0.01 } });
 console.log(`
 Paritas is running at ${base} with the demo org "${DEMO_ORG.name}" (database ${databaseFile()}).
 API reference: ${base}/docs
@@ -81,4 +96,7 @@ Demo API key (shown once; a new one is made on every start):
 Authorization: Bearer ${key}
 
 curl -s ${base}/api/v1/capacity -H 'Authorization: Bearer ${key}' -H 'Content-Type: application/json' -d '${body}'
+
+A claim decided by simulation (the job runner runs beside the server):
+curl -s ${base}/api/v1/claims -H 'Authorization: Bearer ${key}' -H 'Content-Type: application/json' -d '${claim}'
 `);

@@ -226,10 +226,15 @@ export async function startE2E(): Promise<E2E> {
   });
   child.stdout!.on("data", (b: Buffer) => out.push(b));
   child.stderr!.on("data", (b: Buffer) => out.push(b));
+  // The job runner beside it, as the demo runs it (simulations started from the console run here).
+  const runner = spawn(join(ROOT, "node_modules", ".bin", "tsx"), ["scripts/worker.ts"], { cwd: ROOT, env, detached: true, stdio: ["ignore", "pipe", "pipe"] });
+  runner.stdout!.on("data", (b: Buffer) => out.push(b));
+  runner.stderr!.on("data", (b: Buffer) => out.push(b));
 
   let browser: Browser | undefined;
   const cleanup = async () => {
     await browser?.close().catch(() => undefined);
+    await stopServer(runner);
     await stopServer(child);
     await smtp.close().catch(() => undefined);
     rmSync(tmp, { recursive: true, force: true });
