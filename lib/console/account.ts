@@ -30,6 +30,16 @@ export interface EndpointInfo {
 
 let catalogue: EndpointInfo[] | undefined;
 
+/** The path's {parameters} (e.g. a claim's id) as required fields of the form, before the query or body fields. */
+function withPathParams(input: Record<string, unknown>, params: Record<string, unknown> | undefined): Record<string, unknown> {
+  if (!params) return input;
+  return {
+    ...input,
+    properties: { ...(params.properties as object), ...(input.properties as object) },
+    required: [...((params.required as string[]) ?? []), ...((input.required as string[]) ?? [])],
+  };
+}
+
 /** The public endpoints as the console's try page needs them: the full path, examples and the JSON Schema of the input. */
 export function endpointCatalogue(): EndpointInfo[] {
   catalogue ??= endpoints.map((e) => ({
@@ -41,7 +51,7 @@ export function endpointCatalogue(): EndpointInfo[] {
     summary: e.summary,
     description: e.description,
     examples: e.examples,
-    inputSchema: z.toJSONSchema(e.input, { io: "input" }) as Record<string, unknown>,
+    inputSchema: withPathParams(z.toJSONSchema(e.input, { io: "input" }) as Record<string, unknown>, e.params ? (z.toJSONSchema(e.params, { io: "input" }) as Record<string, unknown>) : undefined),
   }));
   return catalogue;
 }

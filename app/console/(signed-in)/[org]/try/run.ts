@@ -20,17 +20,29 @@ export interface RunResult {
 /** Path of an endpoint below the client's base URL (the catalogue lists it with /api/v1 in front). */
 export const apiPath = (e: EndpointInfo) => e.path.replace(/^\/api\/v1(?=\/)/, "");
 
+/** The form's values split into the path's {parameters} and the rest (query or body). */
+export function splitPathParams(e: EndpointInfo, input: Record<string, unknown>): { path: Record<string, string>; rest: Record<string, unknown>; concrete: string } {
+  const names = [...apiPath(e).matchAll(/\{(\w+)\}/g)].map((m) => m[1]!);
+  const path = Object.fromEntries(names.map((n) => [n, String(input[n] ?? "")]));
+  const rest = Object.fromEntries(Object.entries(input).filter(([k]) => !names.includes(k)));
+  const concrete = apiPath(e).replace(/\{(\w+)\}/g, (_, n: string) => encodeURIComponent(path[n]!));
+  return { path, rest, concrete };
+}
+
+type Call = (p: string, o: object) => Promise<{ response: Response; data?: unknown; error?: unknown }>;
+
 async function call(e: EndpointInfo, input: Record<string, unknown>, key: string) {
   const paritas = createParitasClient({ baseUrl: `${window.location.origin}/api/v1`, key });
+  const { path: params, rest } = splitPathParams(e, input);
   const path = apiPath(e);
   const started = performance.now();
-  // The path comes from the catalogue at run time, so TypeScript cannot pick its operation: cast to one.
-  const r =
-    e.method === "GET"
-      ? await paritas.GET(path as "/usage", { params: { query: input as never }, parseAs: "text" })
-      : e.method === "DELETE"
-        ? await (paritas.DELETE as unknown as (p: string, o: object) => Promise<{ response: Response; data?: unknown; error?: unknown }>)(path, { parseAs: "text" })
-        : await paritas.POST(path as "/encode", { body: input as never, parseAs: "text" });
+  // The path comes from the catalogue at run time, so TypeScript cannot pick its operation: call through one signature.
+  const send = (e.method === "GET" ? paritas.GET : e.method === "DELETE" ? paritas.DELETE : paritas.POST) as unknown as Call;
+  const r = await send(path, {
+    params: { path: params, ...(e.method === "GET" ? { query: rest } : {}) },
+    ...(e.method === "POST" ? { body: rest } : {}),
+    parseAs: "text",
+  });
   const ms = Math.round(performance.now() - started);
   // Success bodies come back as text (parseAs); openapi-fetch has already tried JSON on error bodies.
   const raw: unknown = r.data ?? r.error ?? null;
@@ -56,10 +68,11 @@ export async function runEndpoint(org: string, e: EndpointInfo, input: Record<st
     tk = await obtainTryKey(org, { stale: tk.key });
     out = await call(e, input, tk.key);
   }
+  const { rest, concrete } = splitPathParams(e, input);
   return {
     method: e.method,
-    path: apiPath(e),
-    input,
+    path: concrete,
+    input: rest,
     status: out.response.status,
     statusText: out.response.statusText,
     headers: [...out.response.headers.entries()],
