@@ -1,4 +1,4 @@
-import { execFile, execFileSync } from "node:child_process";
+import { execFile, execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { createServer, type Server } from "node:http";
 import type { AddressInfo } from "node:net";
@@ -321,6 +321,34 @@ describe("pending claims against a stand-in server", { timeout: 60_000 }, () => 
     expect(r.stdout).toMatch(/simulated hamming\s+fw-2\.6\.0\s+undecided/);
     const cases = expectJunitShape(readJunit(junit), { tests: 1, failures: 0, errors: 1, skipped: 0 });
     expect(cases[0]!.error!.message).toContain(`claim ${ID} may still be decided later`);
+  });
+});
+
+describe("simulated claims against the API and a job runner", { timeout: 180_000 }, () => {
+  let runner: ChildProcess | undefined;
+  beforeAll(() => {
+    runner = spawn(process.execPath, ["--import", "tsx", "scripts/worker.ts"], { env: { ...process.env, PARITAS_BATCH_THREADS: "1" }, stdio: "ignore" });
+  });
+  afterAll(() => {
+    runner?.kill("SIGKILL");
+  });
+
+  it("one claim in each mode holds: exit 0, the simulated one followed until decided", async () => {
+    const junit = join(tmp, "three-modes.xml");
+    const r = await cli(["check", `${FIX}/three-modes.yaml`, "--junit", junit], env);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toMatch(/^simulated frames: pending \(simulation \/simulations\/sim-[0-9a-z]+\)\nsimulated frames: supported after \d+ s\n$/);
+    // The simulated Hamming (7,4) FER at p = 1e-3 estimates 2.093e-5 (the enumeration above); the claim's bound 1e-4 is five times that.
+    const sim = r.stdout.split("\n").find((l) => l.startsWith("simulated frames"))!;
+    expect(sim).toMatch(/fw-2\.7\.0\s+supported\s/);
+    const cases = expectJunitShape(readJunit(junit), { tests: 3, failures: 0, errors: 0, skipped: 0 });
+    expect(cases[2]!["system-out"]).toMatch(/simulation: \/simulations\/sim-/);
+  });
+
+  it("a simulated claim the simulation refutes: exit 1", async () => {
+    const r = await cli(["check", `${FIX}/simulated-refuted.yaml`], env);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toMatch(/uncoded link at p = 1e-2\s+fw-2\.7\.0\s+refuted\s/);
   });
 });
 
