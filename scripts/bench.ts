@@ -10,6 +10,7 @@ import { createKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
 import { runCodecBench, runCrcBench } from "@/bench/codecs";
 import { heavyRequests, runPoolBench } from "@/bench/compute";
+import { runJobsBench } from "@/bench/jobs";
 import { runSimBench } from "@/bench/sim";
 
 /**
@@ -18,22 +19,25 @@ import { runSimBench } from "@/bench/sim";
  * both measured in this run, and their ratio. PARITAS_BENCH_SECONDS sets the duration (default 10).
  * First the block codecs and the CRC engines in process (bench/codecs.ts; PARITAS_BENCH_ONLY=codecs stops after them),
  * then the Monte Carlo engine in process (bench/sim.ts; PARITAS_BENCH_ONLY=sim runs only that),
- * then the worker pool's throughput with 1 and 2 threads (bench/compute.ts; PARITAS_BENCH_ONLY=compute runs only that);
+ * then the worker pool's throughput with 1 and 2 threads (bench/compute.ts; PARITAS_BENCH_ONLY=compute runs only that),
+ * then simulation jobs through the runner with 1 and 2 threads and a simulated claim's decision time (bench/jobs.ts; PARITAS_BENCH_ONLY=jobs);
  * over HTTP, last, a cheap call's latency alone and while every endpoint's heaviest allowed request runs.
  */
 const seconds = Number(process.env.PARITAS_BENCH_SECONDS ?? 10);
 
 const only = process.env.PARITAS_BENCH_ONLY;
-if (only !== "compute" && only !== "sim") {
+if (only !== "compute" && only !== "sim" && only !== "jobs") {
   runCodecBench();
   runCrcBench();
 }
 if (only === "codecs") process.exit(0);
-if (only !== "compute") runSimBench();
+if (only !== "compute" && only !== "jobs") runSimBench();
 if (only === "sim") process.exit(0);
 spawnSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "inherit" });
-await runPoolBench();
+if (only !== "jobs") await runPoolBench();
 if (only === "compute") process.exit(0);
+await runJobsBench();
+if (only === "jobs") process.exit(0);
 
 async function freePort(): Promise<number> {
   return new Promise((resolve) => {
