@@ -39,12 +39,18 @@ function codeWords(code: Record<string, unknown>, details: ClaimItem["details"])
   return typeof details.n === "number" && typeof details.k === "number" ? `${name} (${details.n},${details.k})` : name;
 }
 
-function channelWords(ch: Record<string, unknown>): string {
-  if (ch.type === "bsc" && typeof ch.p === "number") return `BSC p = ${formatRate(ch.p)}`;
+/** A simulated claim gives its operating point as `at` (p, ε or Eb/N0 in dB by channel); an analytic one inside its channel. */
+function channelWords(ch: Record<string, unknown>, at: unknown): string {
+  const point = (v: unknown) => (typeof v === "number" ? v : typeof at === "number" ? at : undefined);
+  const p = point(ch.p);
+  if (ch.type === "bsc") return p === undefined ? "BSC" : `BSC p = ${formatRate(p)}`;
+  if (ch.type === "bec") return p === undefined ? "BEC" : `BEC ε = ${formatRate(p)}`;
   if (ch.type === "awgn") {
     const m = String(ch.modulation);
     const scheme = m === "bpsk" || m === "qpsk" ? m.toUpperCase() : `${String(ch.order)}-${m.toUpperCase()}`;
-    return `${scheme} on AWGN at Eb/N0 = ${String(ch.ebN0Db)} dB`;
+    const soft = ch.decisions === "soft" ? ", soft decisions" : "";
+    const ebN0 = point(ch.ebN0Db);
+    return `${scheme} on AWGN${ebN0 === undefined ? "" : ` at Eb/N0 = ${ebN0} dB`}${soft}`;
   }
   return String(ch.type);
 }
@@ -61,7 +67,7 @@ export function evidenceWords(c: Pick<ClaimItem, "mode" | "evidence" | "details"
   }
   const code = asRecord(e.code);
   const channel = asRecord(e.channel);
-  const on = channel ? channelWords(channel) : "";
+  const on = channel ? channelWords(channel, e.at) : "";
   const what = code ? `${codeWords(code, c.details)}${on ? ` on ${on}` : ""}` : `uncoded ${on}`.trim();
   const frames = !code && typeof e.frameBits === "number" ? `, ${formatCount(e.frameBits)}-bit frames` : "";
   return `${c.mode}: ${what}${frames}`;

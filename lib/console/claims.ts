@@ -2,7 +2,7 @@ import { z } from "zod";
 import type { Db } from "@/db";
 import { claimLabels, listClaims } from "@/db/queries/claims";
 import type { ClaimVerdict, Org } from "@/db/schema";
-import { present } from "@/lib/api/endpoints/claims";
+import { present, settle } from "@/lib/api/endpoints/claims";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
 import { invalidField } from "./common";
 
@@ -18,6 +18,9 @@ export const claimsQuery = z.strictObject({
 /** The side list shows this many labels, the most recently claimed first. */
 const MAX_LABELS = 200;
 
+/** Pending claims settled per read: far more than an org may have simulations running. */
+const MAX_PENDING = 100;
+
 const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
 
 /**
@@ -28,6 +31,9 @@ const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
 export async function listOrgClaims(db: Db, org: Pick<Org, "id">, q: z.output<typeof claimsQuery>) {
   const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
   if (q.cursor !== undefined && !before) throw invalidField("/cursor", "The cursor is not one this list returned.");
+  // Simulations that ended since their claims were last read decide them now, as a read through the API would, so the
+  // filters and the labels' latest verdicts see the verdicts (pending claims are few: one per running simulation, at most).
+  for (const row of await listClaims(db, org.id, { verdict: "pending", limit: MAX_PENDING })) await settle(db, row);
   const [rows, labels] = await Promise.all([listClaims(db, org.id, { label: q.label, verdict: q.verdict, limit: q.limit + 1, before }), claimLabels(db, org.id, MAX_LABELS)]);
   const page = rows.slice(0, q.limit);
   const last = page.at(-1);

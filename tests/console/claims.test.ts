@@ -138,6 +138,30 @@ describe("the claims list", () => {
     expect(res.body.labels).toEqual([{ label: "fw-2.0", latestAt: at, latestVerdict: "pending", total: 1, counts: { supported: 0, refuted: 0, inconclusive: 0, pending: 1 } }]);
   });
 
+  it("shows a simulated claim pending with its simulation while the job waits, and decided once the job has ended, as the API then answers", async () => {
+    const other = await makeConsoleOrg();
+    const auth = `Bearer ${other.keys.developer.key}`;
+    const made = await postJson("/api/v1/claims", { label: "fw-3.0", target: { metric: "ber", atMost: 1e-4 }, evidence: { mode: "simulated", channel: { type: "bsc" }, at: 1e-3, seed: 5 } }, auth);
+    expect(made.status, made.text).toBe(202);
+    const list = () => consoleCall("GET", `/api/console/orgs/${other.org.slug}/claims`, { cookie: other.billing.cookie });
+    // No runner in this test: the job stays queued.
+    const pending = await list();
+    expect(pending.body.claims).toHaveLength(1);
+    const job = pending.body.claims[0].jobId as string;
+    expect(job).toMatch(/^sim-/);
+    expect(pending.body.claims[0]).toMatchObject({ verdict: "pending", rate: null, interval: null, simulation: `/simulations/${job}` });
+    expect(pending.body.labels[0]).toMatchObject({ label: "fw-3.0", latestVerdict: "pending", counts: { pending: 1 } });
+
+    // The job is cancelled before it ran a chunk: the claim is decided (inconclusive: no evidence) on the console's next read.
+    await other.db.updateTable("jobs").set({ status: "cancelled", reason: "cancelled by the test", finished_at: new Date().toISOString() }).where("id", "=", job).execute();
+    const after = await list();
+    expect(after.body.claims[0].verdict).toBe("inconclusive");
+    expect(after.body.labels[0]).toMatchObject({ latestVerdict: "inconclusive", counts: { pending: 0, inconclusive: 1 } });
+    const { jobId, ...claim } = after.body.claims[0];
+    expect(jobId).toBe(job);
+    expect(claim).toEqual((await getQuery(`/api/v1/claims/${made.body.id}`, {}, auth)).body);
+  });
+
   it("refuses a bad verdict, a bad limit and a cursor it did not write with field pointers", async () => {
     expectFieldError(await get("?verdict=maybe"), "/verdict");
     expectFieldError(await get("?limit=0"), "/limit");

@@ -30,6 +30,16 @@ describe("claim words", () => {
     expect(evidenceWords(analytic({ channel: { type: "bsc", p: 1e-6 }, frameBits: 1024 }))).toBe("analytic: uncoded BSC p = 1e-6, 1,024-bit frames");
   });
 
+  it("simulated evidence reads its operating point from `at`", () => {
+    const details = { n: 7, k: 4 };
+    const target = resolveTarget({ metric: "fer", atMost: 1e-2 });
+    expect(evidenceWords({ mode: "simulated", evidence: { mode: "simulated", code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, at: 0.01 }, details, target })).toBe("simulated: Hamming (7,4) on BSC p = 0.01");
+    expect(evidenceWords({ mode: "simulated", evidence: { mode: "simulated", channel: { type: "awgn", modulation: "bpsk", decisions: "soft" }, at: 4 }, details: {}, target })).toBe("simulated: uncoded BPSK on AWGN at Eb/N0 = 4 dB, soft decisions");
+    expect(evidenceWords({ mode: "simulated", evidence: { mode: "simulated", channel: { type: "bec" }, at: 0.2 }, details: {}, target })).toBe("simulated: uncoded BEC ε = 0.2");
+    // A pending claim has no details yet: the code is named without its (n, k).
+    expect(evidenceWords({ mode: "simulated", evidence: { mode: "simulated", code: { family: "golay", extended: true }, channel: { type: "bsc" }, at: 0.02 }, details: {}, target })).toBe("simulated: extended Golay on BSC p = 0.02");
+  });
+
   it("targets, rates and intervals as the API's reasoning writes numbers", () => {
     expect(targetWords({ metric: "ber", atMost: 1e-9, preset: "fibre" })).toBe("BER ≤ 1e-9 (fibre preset)");
     expect(targetWords({ metric: "fer", atMost: 1e-4 })).toBe("FER ≤ 1e-4");

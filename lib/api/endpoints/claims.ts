@@ -149,7 +149,7 @@ export function present(row: Claim): Out {
 }
 
 /** A pending claim whose simulation has ended gets its verdict now, once (the first read after the end writes it). */
-async function settle(db: Db, row: Claim): Promise<Claim> {
+export async function settle(db: Db, row: Claim): Promise<Claim> {
   if (row.verdict !== "pending" || !row.job_id) return row;
   const job = await findJob(db, row.org_id, row.job_id);
   if (!job || job.status === "queued" || job.status === "running") return row;

@@ -2,7 +2,7 @@
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { useId, useState, type ReactNode } from "react";
+import { useId, useRef, useState, type ReactNode } from "react";
 import { CodePanel } from "@/components/console/code-panel";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
@@ -157,6 +157,7 @@ function Claims({ org }: { org: string }) {
   const page = cursors.length - 1;
   const filters = { label, verdict, cursor: cursors[page], limit: PAGE_SIZE };
   const verdictId = useId();
+  const history = useRef<HTMLElement>(null);
   const claims = useQuery({ queryKey: queryKeys.claims(org, filters), queryFn: ({ signal }) => consoleApi.claims(org, filters, signal), placeholderData: keepPreviousData });
 
   if (claims.isPending) return <Loading label="Loading the claims" rows={5} />;
@@ -173,9 +174,11 @@ function Claims({ org }: { org: string }) {
         onSelect={(l) => {
           setLabel(l);
           setCursors([undefined]);
+          // Below the lg breakpoint the labels sit above the history: bring the history into view.
+          if (!window.matchMedia("(min-width: 64rem)").matches) history.current?.scrollIntoView({ block: "start" });
         }}
       />
-      <section aria-labelledby={`${verdictId}-title`} className="flex min-w-0 flex-col gap-4">
+      <section ref={history} aria-labelledby={`${verdictId}-title`} className="flex min-w-0 scroll-mt-4 flex-col gap-4">
         <div className="flex flex-wrap items-end justify-between gap-3">
           <div className="min-w-0">
             <h2 id={`${verdictId}-title`} className="text-lg font-semibold break-all">
