@@ -56,6 +56,28 @@ function EndpointList({ groups, selected, onSelect }: { groups: [string, Endpoin
   );
 }
 
+/** An endpoint's description: its first paragraph, and the rest (work, cost, limits) behind a disclosure, so the form stays near the top on a phone. */
+function Description({ text }: { text: string }) {
+  const [first, ...rest] = text.split(/\n\n+/);
+  return (
+    <div className="mt-1 text-sm text-ink-2">
+      <p>
+        <InlineCode text={first!} />
+      </p>
+      {rest.length ? (
+        <details className="mt-1">
+          <summary className="cursor-pointer text-ink">Work, cost and limits</summary>
+          {rest.map((para, i) => (
+            <p key={i} className="mt-1">
+              <InlineCode text={para} />
+            </p>
+          ))}
+        </details>
+      ) : null}
+    </div>
+  );
+}
+
 function Bench({ org }: { org: string }) {
   const endpoints = useQuery({ queryKey: queryKeys.endpoints, queryFn: ({ signal }) => consoleApi.endpoints(signal), staleTime: 10 * 60_000 });
   const list = endpoints.data?.endpoints;
@@ -112,11 +134,7 @@ function Bench({ org }: { org: string }) {
                 </span>
               </div>
               <p className="mt-1 font-medium">{endpoint.summary}</p>
-              {endpoint.description ? (
-                <p className="mt-1 text-sm text-ink-2">
-                  <InlineCode text={endpoint.description} />
-                </p>
-              ) : null}
+              {endpoint.description ? <Description text={endpoint.description} /> : null}
               <div className="mt-4 border-t border-rule pt-4">
                 <EndpointForm
                   key={endpoint.id}
@@ -151,7 +169,7 @@ export function BenchView() {
     <PageHeader
       eyebrow="Bench"
       title="Try the endpoints"
-      lead="Every public endpoint, with a form made from its request schema. Runs use a one-hour test key made for this browser tab; each run also gives you curl and typed-client code."
+      lead="Every public endpoint, with a form made from its request schema. Runs use your bench credential, a test key kept for you alone and renewed hourly (it is not among the organisation's keys); each run also gives you curl and typed-client code."
     />
   );
   return (
