@@ -146,6 +146,22 @@ describe("a simulation from request to result", () => {
   });
 });
 
+describe("idempotent submission", () => {
+  it("the same Idempotency-Key and body start one simulation; the replay answers the same 202 and Location", async () => {
+    const { auth, db, org } = await makeOrgWithKey();
+    const body = { channel: { type: "bsc" }, points: [0.1], stop: { maxBits: 1000 }, seed: 3 };
+    const first = await postJson("/api/v1/simulations", body, auth, { "idempotency-key": "nightly-run-318" });
+    const again = await postJson("/api/v1/simulations", body, auth, { "idempotency-key": "nightly-run-318" });
+    expect(first.status).toBe(202);
+    expect(again.status).toBe(202);
+    expect(again.headers["idempotency-replayed"]).toBe("true");
+    expect(again.headers.location).toBe(first.headers.location);
+    expect(again.body.id).toBe(first.body.id);
+    const jobs = await db.selectFrom("jobs").select("id").where("org_id", "=", org.id).execute();
+    expect(jobs).toEqual([{ id: first.body.id }]);
+  });
+});
+
 describe("limits and bad requests", () => {
   it(`refuses a fifth job at once while four are queued or running (429 job-limit with Retry-After)`, async () => {
     const { auth } = await makeOrgWithKey();
