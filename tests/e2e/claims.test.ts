@@ -4,14 +4,28 @@
  * and filters its history by verdict. Screenshots land in tests/e2e/screenshots/.
  */
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { openDb } from "@/db";
+import { insertOrg } from "@/db/queries/orgs";
+import { findUserByEmail } from "@/db/queries/users";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
 import { capture, DESKTOP, hydrated, layoutProblems, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E } from "./harness";
 
 const ORG = DEMO_ORG.slug;
 let e2e: E2E;
 
+/** A second organisation of the demo owner, without a claim yet. */
+const EMPTY_ORG = { slug: "harbour-lab", name: "Harbour Lab" };
+
 beforeAll(async () => {
   e2e = await startE2E();
+  const db = openDb(e2e.dbFile);
+  try {
+    const org = await insertOrg(db, EMPTY_ORG);
+    const owner = await findUserByEmail(db, DEMO_USERS[0]!.email);
+    await db.insertInto("memberships").values({ org_id: org.id, user_id: owner!.id, role: "owner", created_at: new Date().toISOString() }).execute();
+  } finally {
+    await db.destroy();
+  }
 }, 15 * 60_000);
 
 afterAll(async () => {
@@ -75,6 +89,32 @@ describe("the Claims section", { timeout: 90_000 }, () => {
       await s.close();
     } catch (err) {
       await screenshot(page, `failure-claims-${role}-${width}.tmp`).catch(() => undefined);
+      await s.context.close().catch(() => undefined);
+      throw err;
+    }
+  });
+
+  test.each([
+    ["1280", DESKTOP],
+    ["390", PHONE],
+  ] as const)("at %s px, an organisation without claims shows a newcomer the call and the CI command that make one", async (width, viewport) => {
+    const s = await e2e.session({ viewport });
+    const { page } = s;
+    try {
+      await signInWithPassword(e2e, page, DEMO_USERS[0]!.email, DEMO_PASSWORD);
+      await page.goto(`${e2e.baseUrl}/console/${EMPTY_ORG.slug}/claims`);
+      await page.getByText("No claims yet").waitFor();
+      await settle(page);
+      const curl = await page.getByRole("region", { name: "curl" }).textContent();
+      expect(curl).toContain(`${e2e.baseUrl}/api/v1/claims`);
+      expect(curl).toContain("Bearer $PARITAS_KEY");
+      expect(await page.getByRole("region", { name: "shell" }).textContent()).toBe("npx paritas-claims check claims.yaml --junit claims.xml");
+      expect(await page.getByRole("navigation", { name: "Labels" }).count()).toBe(0);
+      expect(await layoutProblems(page)).toEqual([]);
+      await capture(page, `claims-empty-${width}`);
+      await s.close();
+    } catch (err) {
+      await screenshot(page, `failure-claims-empty-${width}.tmp`).catch(() => undefined);
       await s.context.close().catch(() => undefined);
       throw err;
     }
