@@ -157,9 +157,11 @@ export async function runJobs(o: RunnerOptions, signal: AbortSignal): Promise<vo
   while (!signal.aborted) {
     const job = await o.queue.claim(o.holder, o.leaseMs ?? RUNNER_DEFAULTS.leaseMs);
     if (!job) {
+      // Wait, or stop waiting at the abort; the listener goes with the wait (one per idle turn would pile up).
       await new Promise<void>((r) => {
-        const t = setTimeout(r, idle);
-        signal.addEventListener("abort", () => (clearTimeout(t), r()), { once: true });
+        const onAbort = () => (clearTimeout(t), r());
+        const t = setTimeout(() => (signal.removeEventListener("abort", onAbort), r()), idle);
+        signal.addEventListener("abort", onAbort, { once: true });
       });
       continue;
     }
