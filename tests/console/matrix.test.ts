@@ -22,6 +22,8 @@ interface Row {
   path: (fx: ConsoleFixture, as: Person) => string;
   body?: (fx: ConsoleFixture, as: Person) => unknown;
   expect: Record<Role, number>;
+  /** The answer's media type when it is not JSON. */
+  type?: RegExp;
   /** The same call aimed at an object of the other org, from inside the caller's own org (run as owner). */
   foreign?: (fx: ConsoleFixture) => { path: string; body?: unknown };
 }
@@ -133,6 +135,40 @@ const rows: Row[] = [
   { method: "GET", route: "/api/console/orgs/[org]/usage", does: "read usage", path: (fx) => `${org(fx)}/usage`, expect: everyone(200) },
   { method: "GET", route: "/api/console/orgs/[org]/audit", does: "read the audit log", path: (fx) => `${org(fx)}/audit`, expect: ownerOnly(200) },
   { method: "GET", route: "/api/console/orgs/[org]/claims", does: "read the claims", path: (fx) => `${org(fx)}/claims`, expect: everyone(200) },
+  { method: "GET", route: "/api/console/orgs/[org]/simulations", does: "list simulations", path: (fx) => `${org(fx)}/simulations`, expect: everyone(200) },
+  {
+    method: "POST",
+    route: "/api/console/orgs/[org]/simulations",
+    does: "start a simulation",
+    path: (fx) => `${org(fx)}/simulations`,
+    body: () => ({ code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.01], stop: { maxBits: 4000 }, seed: 3 }),
+    expect: keyHolders(202),
+  },
+  {
+    method: "GET",
+    route: "/api/console/orgs/[org]/simulations/[id]",
+    does: "read a simulation",
+    path: (fx) => `${org(fx)}/simulations/${fx.simulations.done}`,
+    expect: everyone(200),
+    foreign: (fx) => ({ path: `${org(fx)}/simulations/${fx.otherSimulation}` }),
+  },
+  {
+    method: "DELETE",
+    route: "/api/console/orgs/[org]/simulations/[id]",
+    does: "cancel a queued simulation",
+    path: (fx) => `${org(fx)}/simulations/${fx.simulations.queued}`,
+    expect: keyHolders(200),
+    foreign: (fx) => ({ path: `${org(fx)}/simulations/${fx.otherSimulation}` }),
+  },
+  {
+    method: "GET",
+    route: "/api/console/orgs/[org]/simulations/[id]/events",
+    does: "follow a simulation's events (a finished one: one end event)",
+    path: (fx) => `${org(fx)}/simulations/${fx.simulations.done}/events`,
+    expect: everyone(200),
+    type: /^text\/event-stream/,
+    foreign: (fx) => ({ path: `${org(fx)}/simulations/${fx.otherSimulation}/events` }),
+  },
 ];
 
 /** Console routes written and tested elsewhere: they work without a session, so a role matrix does not apply. */
@@ -157,12 +193,12 @@ function send(row: Row, fx: ConsoleFixture, path: string, cookie: string | undef
 
 const auditCount = async (fx: ConsoleFixture) => (await fx.db.selectFrom("audit_log").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n;
 
-function expectStatus(res: Awaited<ReturnType<typeof consoleCall>>, status: number) {
+function expectStatus(res: Awaited<ReturnType<typeof consoleCall>>, status: number, type = /^application\/json/) {
   if (status === 403) expectProblem(res, 403, "role-refused");
   else if (status === 404) expectProblem(res, 404, "not-found");
   else {
     expect(res.status, res.text).toBe(status);
-    expect(res.headers["content-type"]).toMatch(/^application\/json/);
+    expect(res.headers["content-type"]).toMatch(type);
   }
 }
 
@@ -188,7 +224,7 @@ describe.each(rows.map((r) => [`${r.method} ${r.route} (${r.does})`, r] as const
     const as = fx.byRole[role];
     const before = await auditCount(fx);
     const res = await consoleCall(row.method, row.path(fx, as), { cookie: as.cookie, body: row.body?.(fx, as) });
-    expectStatus(res, row.expect[role]);
+    expectStatus(res, row.expect[role], row.type);
     // A refused change leaves no trace; an allowed one is audited.
     if (mutation) expect(await auditCount(fx)).toBe(row.expect[role] < 300 ? before + 1 : before);
   });

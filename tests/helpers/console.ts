@@ -2,6 +2,7 @@ import { randomBytes } from "node:crypto";
 import { vi } from "vitest";
 import { getDb, type Db } from "@/db";
 import { insertInvitation } from "@/db/queries/invitations";
+import { insertJob } from "@/db/queries/jobs";
 import { insertOrg } from "@/db/queries/orgs";
 import { insertMembership, insertUser } from "@/db/queries/users";
 import type { Org, Role } from "@/db/schema";
@@ -60,6 +61,15 @@ export async function invite(db: Db, org: Org, email: string, role: Role, expire
   return { id: row.id, token };
 }
 
+/** A simulation job row as the API queues it (one (7,4) Hamming point on a BSC), queued or already done. */
+async function simulationJobRow(db: Db, org: Org, status: "queued" | "done") {
+  const id = `sim-${randomBytes(8).toString("hex")}`;
+  const now = new Date().toISOString();
+  const input = { code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.01], stop: { maxBits: 4000 }, confidence: 0.95, gapSkipping: true, seed: 1 };
+  await insertJob(db, { id, org_id: org.id, api_key_id: null, kind: "simulation", input: JSON.stringify(input), status, created_at: now, updated_at: now, finished_at: status === "done" ? now : null });
+  return id;
+}
+
 const key = (db: Db, org: Org, by: Person | null, name: string) =>
   createKey(db, { orgId: org.id, name, mode: "test", scopes: allScopes, createdByUserId: by?.id ?? null }, by ? `user:${by.id}` : "cli");
 
@@ -83,16 +93,18 @@ export async function makeConsoleOrg() {
     spare: await key(db, org, spare, "spare key"),
   };
   const invitation = await invite(db, org, `invitee-${unique()}@console.example`, "developer");
+  const simulations = { queued: await simulationJobRow(db, org, "queued"), done: await simulationJobRow(db, org, "done") };
 
   const other = await insertOrg(db, { slug: `other-${unique()}`, name: "Another org" });
   const otherOwner = await addMember(db, other, "other-owner", "owner");
   const otherKey = await key(db, other, otherOwner, "other key");
   const otherInvitation = await invite(db, other, `other-invitee-${unique()}@console.example`, "developer");
+  const otherSimulation = await simulationJobRow(db, other, "queued");
   const byRole = { owner, developer, billing };
   // Keyed by user id: an invitation to the other org for each of owner, developer and billing.
   const invitationsElsewhere = new Map<number, { id: number; token: string }>();
   for (const p of Object.values(byRole)) invitationsElsewhere.set(p.id, await invite(db, other, p.email, "developer"));
-  return { db, org, owner, coOwner, developer, billing, spare, keys, invitation, other, otherOwner, otherKey, otherInvitation, byRole, invitationsElsewhere };
+  return { db, org, owner, coOwner, developer, billing, spare, keys, invitation, simulations, other, otherOwner, otherKey, otherInvitation, otherSimulation, byRole, invitationsElsewhere };
 }
 
 export type ConsoleFixture = Awaited<ReturnType<typeof makeConsoleOrg>>;

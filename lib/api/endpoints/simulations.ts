@@ -139,8 +139,9 @@ export function presentSimulation(row: Job): View {
 
 const simId = z.object({ id: z.string().regex(JOB_ID_PATTERN).meta({ description: "The simulation's id (`sim-` and 16 characters)." }) });
 
-async function jobOf(db: Parameters<typeof findJob>[0], orgId: number, id: string): Promise<Job> {
-  const row = await findJob(db, orgId, id);
+/** The org's simulation `id`, or the not-found problem (another org's, a claim's job or a malformed id alike). */
+export async function simulationJob(db: Parameters<typeof findJob>[0], orgId: number, id: string): Promise<Job> {
+  const row = JOB_ID_PATTERN.test(id) ? await findJob(db, orgId, id) : undefined;
   if (!row || row.kind !== SIMULATION_KIND) throw new ApiError("not-found", `There is no simulation ${id} in this organisation.`);
   return row;
 }
@@ -173,6 +174,23 @@ const illustration: View = {
   caution,
 };
 
+/**
+ * Check a validated request against the budgets, draw its seed when it has none, build its simulator once (so its
+ * errors are the request's), and queue it for the runner. The API and the console both start simulations here;
+ * `apiKeyId` is null for one started from the console.
+ */
+export async function enqueueSimulation(db: Parameters<typeof findJob>[0], orgId: number, apiKeyId: number | null, req: SimulationRequest): Promise<Job> {
+  for (const key of ["maxBits", "maxFrames"] as const) {
+    if ((req.stop[key] ?? 0) > MAX_BITS_PER_POINT) throw new InputError(`At most 2^40 per point.`, ["stop", key]);
+  }
+  await checkActiveJobs(db, orgId);
+  const input: SimulationJobInput = { ...req, seed: req.seed ?? randomInt(0, 2 ** 32 - 1) };
+  await checkSimulation(input);
+  const id = newJobId("sim");
+  await databaseQueue(db).enqueue({ id, orgId, apiKeyId, kind: SIMULATION_KIND, input });
+  return (await findJob(db, orgId, id))!;
+}
+
 export const createSimulation = defineDataEndpoint({
   id: "simulations.create",
   method: "POST",
@@ -196,15 +214,8 @@ export const createSimulation = defineDataEndpoint({
   illustration: { summary: ILLUSTRATIVE, value: illustration },
   cost: 1,
   handler: async (req, { db, principal }) => {
-    for (const key of ["maxBits", "maxFrames"] as const) {
-      if ((req.stop[key] ?? 0) > MAX_BITS_PER_POINT) throw new InputError(`At most 2^40 per point.`, ["stop", key]);
-    }
-    await checkActiveJobs(db, principal.orgId);
-    const input: SimulationJobInput = { ...req, seed: req.seed ?? randomInt(0, 2 ** 32 - 1) };
-    await checkSimulation(input);
-    const id = newJobId("sim");
-    await databaseQueue(db).enqueue({ id, orgId: principal.orgId, apiKeyId: principal.keyId, kind: SIMULATION_KIND, input });
-    return new Reply(202, presentSimulation((await findJob(db, principal.orgId, id))!), `/simulations/${id}`);
+    const row = await enqueueSimulation(db, principal.orgId, principal.keyId, req);
+    return new Reply(202, presentSimulation(row), `/simulations/${row.id}`);
   },
 });
 
@@ -222,7 +233,7 @@ export const getSimulation = defineDataEndpoint({
   examples: {},
   illustration: { summary: ILLUSTRATIVE, value: illustration },
   cost: 0,
-  handler: async (_q, { db, principal, params }) => presentSimulation(await jobOf(db, principal.orgId, params.id!)),
+  handler: async (_q, { db, principal, params }) => presentSimulation(await simulationJob(db, principal.orgId, params.id!)),
 });
 
 const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
@@ -267,7 +278,7 @@ export const cancelSimulation = defineDataEndpoint({
   illustration: { summary: ILLUSTRATIVE, value: { ...illustration, status: "cancelled", reason: "Cancelled on request; the result holds the chunks finished before." } },
   cost: 0,
   handler: async (_q, { db, principal, params }) => {
-    await jobOf(db, principal.orgId, params.id!);
+    await simulationJob(db, principal.orgId, params.id!);
     const row = (await requestCancel(db, principal.orgId, params.id!, new Date().toISOString()))!;
     const out = presentSimulation(row);
     return row.status === "running" ? new Reply(202, out, `/simulations/${row.id}`) : out;
@@ -277,6 +288,36 @@ export const cancelSimulation = defineDataEndpoint({
 /** How often the event stream looks at the job, and the longest a stream stays open. */
 export const EVENTS_POLL_MS = 250;
 export const EVENTS_MAX_MS = 30 * 60_000;
+
+/** The event stream of the org's job `id` (it must exist): `progress` when the job changes, `end` once, then closed. The API and the console both stream with it. */
+export function simulationEventStream(db: Parameters<typeof findJob>[0], orgId: number, id: string): ReadableStream<Uint8Array> {
+  const enc = new TextEncoder();
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  return new ReadableStream<Uint8Array>({
+    start(controller) {
+      const opened = Date.now();
+      let last = "";
+      const tick = async () => {
+        try {
+          const row = (await findJob(db, orgId, id))!;
+          const over = row.status === "done" || row.status === "cancelled" || row.status === "failed";
+          if (row.updated_at !== last || over) {
+            last = row.updated_at;
+            controller.enqueue(enc.encode(`event: ${over ? "end" : "progress"}\ndata: ${JSON.stringify(presentSimulation(row))}\n\n`));
+          }
+          if (over || Date.now() - opened > EVENTS_MAX_MS) return controller.close();
+          timer = setTimeout(() => void tick(), EVENTS_POLL_MS);
+        } catch (e) {
+          controller.error(e);
+        }
+      };
+      void tick();
+    },
+    cancel() {
+      clearTimeout(timer);
+    },
+  });
+}
 
 export const simulationEvents = defineDataEndpoint({
   id: "simulations.events",
@@ -296,34 +337,8 @@ export const simulationEvents = defineDataEndpoint({
   illustration: { summary: "Illustrative only: the stream of a short simulation", value: `event: progress\ndata: {"id":"sim-3q8x1m5v0c7h2k9n","status":"running",…}\n\nevent: end\ndata: {"id":"sim-3q8x1m5v0c7h2k9n","status":"done",…}\n\n` },
   cost: 0,
   handler: async (_q, { db, principal, params }) => {
-    await jobOf(db, principal.orgId, params.id!);
-    const enc = new TextEncoder();
-    let timer: ReturnType<typeof setTimeout> | undefined;
-    const stream = new ReadableStream<Uint8Array>({
-      start(controller) {
-        const opened = Date.now();
-        let last = "";
-        const tick = async () => {
-          try {
-            const row = (await findJob(db, principal.orgId, params.id!))!;
-            const over = row.status === "done" || row.status === "cancelled" || row.status === "failed";
-            if (row.updated_at !== last || over) {
-              last = row.updated_at;
-              controller.enqueue(enc.encode(`event: ${over ? "end" : "progress"}\ndata: ${JSON.stringify(presentSimulation(row))}\n\n`));
-            }
-            if (over || Date.now() - opened > EVENTS_MAX_MS) return controller.close();
-            timer = setTimeout(() => void tick(), EVENTS_POLL_MS);
-          } catch (e) {
-            controller.error(e);
-          }
-        };
-        void tick();
-      },
-      cancel() {
-        clearTimeout(timer);
-      },
-    });
-    return new StreamReply(stream, "text/event-stream");
+    await simulationJob(db, principal.orgId, params.id!);
+    return new StreamReply(simulationEventStream(db, principal.orgId, params.id!), "text/event-stream");
   },
 });
 

@@ -1,0 +1,60 @@
+import { z } from "zod";
+import type { Db } from "@/db";
+import { insertAudit } from "@/db/queries/audit";
+import { listJobs, requestCancel } from "@/db/queries/jobs";
+import { insertUsageEvent } from "@/db/queries/usage";
+import type { Org } from "@/db/schema";
+import { createSimulation, enqueueSimulation, presentSimulation, SIMULATION_KIND, simulationJob } from "@/lib/api/endpoints/simulations";
+import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
+import type { SimulationRequest } from "@/lib/api/simulation-spec";
+import { actorOf, invalidField, type Caller } from "./common";
+
+/**
+ * The Simulations pages' data: the same jobs, checks and presentation as /api/v1/simulations, for a signed-in
+ * member instead of a key. A simulation started here belongs to no key; it is metered as one started through the API.
+ */
+
+export const simulationsQuery = z.strictObject({ limit: limitParam(50, 20), cursor: cursorParam });
+
+const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
+
+export async function listOrgSimulations(db: Db, org: Pick<Org, "id">, q: z.output<typeof simulationsQuery>) {
+  const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
+  if (q.cursor !== undefined && !before) throw invalidField("/cursor", "The cursor is not one this list returned.");
+  const rows = await listJobs(db, org.id, SIMULATION_KIND, q.limit + 1, before);
+  const page = rows.slice(0, q.limit);
+  const last = page.at(-1);
+  return { simulations: page.map(presentSimulation), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+}
+
+export const orgSimulation = async (db: Db, org: Pick<Org, "id">, id: string) => presentSimulation(await simulationJob(db, org.id, id));
+
+/** Start a simulation: the API's checks and queue, its starting unit metered (no key), and an audit row naming who started it. */
+export async function startOrgSimulation(db: Db, org: Pick<Org, "id">, caller: Caller, req: SimulationRequest, requestId: string) {
+  const row = await enqueueSimulation(db, org.id, null, req);
+  const now = new Date().toISOString();
+  await insertUsageEvent(db, {
+    org_id: org.id,
+    api_key_id: null,
+    endpoint: createSimulation.id,
+    method: "POST",
+    status: 202,
+    units: createSimulation.cost,
+    duration_ms: 0,
+    request_id: requestId,
+    created_at: now,
+    reported_at: null,
+  });
+  await insertAudit(db, { orgId: org.id, actor: actorOf(caller), action: "simulation.started", targetType: "job", targetId: row.id, details: { points: JSON.parse(row.input).points?.length ?? 0 } });
+  return presentSimulation(row);
+}
+
+/** Cancel as DELETE /simulations/{id} does; only a cancel that ended or marked a job is audited. */
+export async function cancelOrgSimulation(db: Db, org: Pick<Org, "id">, caller: Caller, id: string) {
+  const before = await simulationJob(db, org.id, id);
+  const row = (await requestCancel(db, org.id, id, new Date().toISOString()))!;
+  if (before.status === "queued" || (before.status === "running" && before.cancel_requested_at === null)) {
+    await insertAudit(db, { orgId: org.id, actor: actorOf(caller), action: "simulation.cancelled", targetType: "job", targetId: id, details: { was: before.status } });
+  }
+  return { simulation: presentSimulation(row), ending: row.status === "running" };
+}
