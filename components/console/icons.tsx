@@ -88,6 +88,15 @@ export const IconClaims = (p: P) => (
   </Icon>
 );
 
+/** Simulations: a waterfall curve falling through three measured points, each with its interval tick. */
+export const IconSimulations = (p: P) => (
+  <Icon {...p}>
+    <path d="M3 3v14h14" />
+    <path d="M5 5.5c3 .5 5 3 7 6.5s3 4 4.5 4" />
+    <path d="M7 4.5v3M11 8.5v3.5M14.5 12.5v2.5" />
+  </Icon>
+);
+
 export const IconCopy = (p: P) => (
   <Icon {...p}>
     <rect x="7" y="7" width="9.5" height="9.5" rx="1.5" />

@@ -8,7 +8,7 @@ import { Mark } from "@/components/mark";
 import { mayOpen, useMe, type Section } from "@/lib/console-client/hooks";
 import type { Role } from "@/lib/console-client/types";
 import { RoleBadge } from "./badges";
-import { IconBench, IconClaims, IconExit, IconKey, IconLedger, IconMenu, IconMeter, IconPeople, IconSummary } from "./icons";
+import { IconBench, IconClaims, IconExit, IconKey, IconLedger, IconMenu, IconMeter, IconPeople, IconSimulations, IconSummary } from "./icons";
 import { selectBase } from "./ui";
 import { forgetBenchCredentials } from "@/lib/console-client/try-key";
 
@@ -26,6 +26,7 @@ export const NAV: NavItem[] = [
   { section: "overview", segment: "", label: "Summary", hint: "plan, this month, shortcuts", Icon: IconSummary },
   { section: "try", segment: "try", label: "Bench", hint: "run any endpoint", Icon: IconBench },
   { section: "claims", segment: "claims", label: "Claims", hint: "verdicts by firmware label", Icon: IconClaims },
+  { section: "simulations", segment: "simulations", label: "Simulations", hint: "error-rate curves, run as jobs", Icon: IconSimulations },
   { section: "keys", segment: "keys", label: "Keys", hint: "create, rotate, revoke", Icon: IconKey },
   { section: "usage", segment: "usage", label: "Meter", hint: "units by day, endpoint, key", Icon: IconMeter },
   { section: "members", segment: "members", label: "People", hint: "members, roles, invitations", Icon: IconPeople },

@@ -15,6 +15,9 @@ import type {
   RemovedMember,
   Role,
   RotatedKey,
+  SimulationDetail,
+  SimulationItem,
+  SimulationsPage,
   TryKey,
   UsageReport,
 } from "./types";
@@ -67,4 +70,12 @@ export const consoleApi = {
 
   claims: (org: string, f: ClaimFilters, signal?: AbortSignal) =>
     consoleFetch<ClaimsPage>(`${orgPath(org)}/claims${query({ label: f.label, verdict: f.verdict, cursor: f.cursor, limit: f.limit })}`, { signal }),
+
+  simulations: (org: string, f: { cursor?: string; limit?: number }, signal?: AbortSignal) =>
+    consoleFetch<SimulationsPage>(`${orgPath(org)}/simulations${query({ cursor: f.cursor, limit: f.limit })}`, { signal }),
+  simulation: (org: string, id: string, signal?: AbortSignal) => consoleFetch<{ simulation: SimulationDetail }>(`${orgPath(org)}/simulations/${encodeURIComponent(id)}`, { signal }),
+  startSimulation: (org: string, body: Record<string, unknown>) => consoleFetch<{ simulation: SimulationItem }>(`${orgPath(org)}/simulations`, { method: "POST", body }),
+  cancelSimulation: (org: string, id: string) => consoleFetch<{ simulation: SimulationItem }>(`${orgPath(org)}/simulations/${encodeURIComponent(id)}`, { method: "DELETE" }),
+  /** The Server-Sent Events of one simulation, for an EventSource. */
+  simulationEventsHref: (org: string, id: string) => `${orgPath(org)}/simulations/${encodeURIComponent(id)}/events`,
 };

@@ -26,6 +26,7 @@ export const SECTION_ROLES = {
   audit: ["owner"],
   try: ["owner", "developer"],
   claims: ["owner", "developer", "billing"],
+  simulations: ["owner", "developer", "billing"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Section = keyof typeof SECTION_ROLES;

@@ -10,6 +10,7 @@ import { allScopes, scopeCatalogue } from "@/lib/api/scopes";
 import type { describeMe } from "@/lib/console/account";
 import type { listAuditEntries } from "@/lib/console/audit";
 import type { listOrgClaims } from "@/lib/console/claims";
+import type { listOrgSimulations, orgSimulation } from "@/lib/console/simulations";
 import type { acceptInvitation } from "@/lib/console/invitations";
 import type { createOrgKey, issueBenchCredential, rotateOrgKey } from "@/lib/console/keys";
 import type { listMembersOf, removeMember } from "@/lib/console/members";
@@ -47,6 +48,12 @@ export type ClaimsPage = Awaited<ReturnType<typeof listOrgClaims>>;
 /** A claim as GET /api/v1/claims/{id} presents it, with the simulation job behind it (null when none). */
 export type ClaimItem = ClaimsPage["claims"][number];
 export type ClaimLabel = ClaimsPage["labels"][number];
+
+export type SimulationsPage = Awaited<ReturnType<typeof listOrgSimulations>>;
+/** A simulation as the list shows it (GET /api/v1/simulations/{id}'s shape). */
+export type SimulationItem = SimulationsPage["simulations"][number];
+/** One simulation for its result page: the list's shape and the code's name, n and k. */
+export type SimulationDetail = Awaited<ReturnType<typeof orgSimulation>>;
 export type { ClaimVerdict } from "@/db/schema";
 
 export type AcceptedInvitation = Awaited<ReturnType<typeof acceptInvitation>>;

@@ -5,6 +5,7 @@ import { listJobs, requestCancel } from "@/db/queries/jobs";
 import { insertUsageEvent } from "@/db/queries/usage";
 import type { Org } from "@/db/schema";
 import { createSimulation, enqueueSimulation, presentSimulation, SIMULATION_KIND, simulationJob } from "@/lib/api/endpoints/simulations";
+import { resolveCode } from "@/lib/api/codes";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
 import type { SimulationRequest } from "@/lib/api/simulation-spec";
 import { actorOf, invalidField, type Caller } from "./common";
@@ -27,7 +28,16 @@ export async function listOrgSimulations(db: Db, org: Pick<Org, "id">, q: z.outp
   return { simulations: page.map(presentSimulation), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
 }
 
-export const orgSimulation = async (db: Db, org: Pick<Org, "id">, id: string) => presentSimulation(await simulationJob(db, org.id, id));
+/**
+ * One simulation, with the code's name, length and dimension (its rate places the Shannon limit on the result
+ * page); null for uncoded. The code was built when the simulation was accepted, so it builds again here.
+ */
+export async function orgSimulation(db: Db, org: Pick<Org, "id">, id: string) {
+  const sim = presentSimulation(await simulationJob(db, org.id, id));
+  const spec = (sim.request as Partial<SimulationRequest>).code;
+  const built = spec ? resolveCode(spec, []) : null;
+  return { ...sim, code: built ? { name: built.name, n: built.n, k: built.k } : null };
+}
 
 /** Start a simulation: the API's checks and queue, its starting unit metered (no key), and an audit row naming who started it. */
 export async function startOrgSimulation(db: Db, org: Pick<Org, "id">, caller: Caller, req: SimulationRequest, requestId: string) {
