@@ -13,8 +13,8 @@ export const LANDING_OUTCOMES = [
   },
   {
     title: "BER targets shown, with a confidence",
-    body: "State the claim — say, BER below 1e-5 for a (7,4) Hamming decoder on a BSC with p = 1e-3 — and get back supported, refuted or inconclusive, with the interval and the confidence level behind it.",
-    endpoint: "POST /claims/verify",
+    body: "State the claim — say, frame errors below 1e-4 for a (7,4) Hamming decoder on a BSC with p = 1e-3 — and get back supported, refuted or inconclusive, with the interval and the confidence level behind it, from a formula, your own counts or a simulation that stops once it is sure.",
+    endpoint: "POST /claims",
   },
   {
     title: "Margin to capacity",
@@ -38,8 +38,14 @@ export const LANDING_ENDPOINTS = [
   ["POST", "/links/ber", "Uncoded BER at an Eb/N0, required Eb/N0 for a BER, coding gain"],
   ["GET", "/usage", "Your organisation's metered usage by day and endpoint"],
   ["POST", "/tests/plan", "Bits and test time needed to demonstrate a BER"],
-  ["POST", "/claims/verify", "Verdict on an error-rate claim, with interval and confidence"],
-  ["POST", "/simulations", "Seeded Monte Carlo BER/FER sweeps, run asynchronously"],
+  ["POST", "/claims", "Verdict on an error-rate claim from a formula, your counts or a simulation, with interval and confidence"],
+  ["GET", "/claims", "A firmware label's claims over time"],
+  ["GET", "/claims/{id}", "One claim: verdict, interval, reasoning, evidence"],
+  ["POST", "/simulations", "Seeded Monte Carlo BER/FER sweeps, run as jobs"],
+  ["GET", "/simulations", "Your simulations, newest first"],
+  ["GET", "/simulations/{id}", "Progress, counts and intervals of a simulation"],
+  ["GET", "/simulations/{id}/events", "A simulation's progress as Server-Sent Events"],
+  ["DELETE", "/simulations/{id}", "Cancel a simulation"],
   ["POST", "/conformance", "Device test vectors checked against the reference"],
 ] as const;
 

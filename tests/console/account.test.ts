@@ -34,7 +34,10 @@ describe("GET /api/console/endpoints", () => {
       const l = listed.find((x) => x.id === e.id)!;
       expect(l).toMatchObject({ method: e.method, path: `/api/v1${e.path}`, scope: e.scope, summary: e.summary });
       expect(l.inputSchema.$schema).toBe("https://json-schema.org/draft/2020-12/schema");
-      expect(l.inputSchema).toEqual(JSON.parse(JSON.stringify(z.toJSONSchema(e.input, { io: "input" }))));
+      // A path parameter (a claim's or a simulation's id) is a form field too, required, beside the query or body.
+      const own = JSON.parse(JSON.stringify(z.toJSONSchema(e.input, { io: "input" })));
+      const params = e.params ? JSON.parse(JSON.stringify(z.toJSONSchema(e.params, { io: "input" }))) : undefined;
+      expect(l.inputSchema).toEqual(params ? { ...own, properties: { ...params.properties, ...own.properties }, required: [...params.required, ...(own.required ?? [])] } : own);
       // The examples the try page offers pass the endpoint's own validation.
       for (const ex of Object.values(l.examples)) expect(e.input.safeParse(ex.value).success).toBe(true);
     }
