@@ -7,8 +7,11 @@ import { findOrgBySlug } from "@/db/queries/orgs";
 import { analyticEvidence, decideAnalytic, decideMeasured, measuredEvidence, resolveTarget, targetInput } from "@/lib/api/claim-evidence";
 import { generateKey } from "@/lib/api/keys";
 import { allScopes } from "@/lib/api/scopes";
+import { engineRules, simulationRequest, simulatorFor } from "@/lib/api/simulation-spec";
 import { hashPassword } from "@/lib/auth/passwords";
+import { runPoint } from "@/lib/core/sim/run";
 import { newJobId } from "@/lib/jobs/ids";
+import { unitsForBits, type SimulationJobInput, type SimulationProgress } from "@/lib/jobs/simulation-kind";
 
 /**
  * The demo scenario: Brinewatch Buoys builds moored ocean-sensor buoys that report over a
@@ -59,6 +62,16 @@ const HISTORY = {
   internExpired: 5,
   relayRotated: 2.1,
 } as const;
+/**
+ * One finished simulation, started by the CI key days ago: the telemetry link's (7,4) Hamming code on a BSC over four
+ * crossover probabilities, its counts computed by the engine with this seed (so the Simulations page has a curve at once).
+ */
+export const DEMO_SIMULATION = {
+  days: 3.2,
+  seconds: 4,
+  request: { code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.02, 0.01, 0.005, 0.002], stop: { minBitErrors: 400, maxBits: 1e9 }, seed: 20261120 },
+} as const;
+
 /**
  * The firmware team's claims about the telemetry link, sent from CI with its key: days before the seed runs,
  * label, what they said, target and evidence (the bench rig's counts travel through CI too). Release 2.4.0
@@ -257,6 +270,21 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
         .values({ id: newJobId("clm"), org_id: org.id, api_key_id: ci.id, label: c.label, mode: request.evidence.mode, verdict: decision.verdict, request: JSON.stringify(request), outcome: JSON.stringify({ target, decision }), job_id: null, created_at: at, decided_at: at })
         .execute();
       rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "claims.create", method: "POST", status: 201, units: 1, duration_ms: 2.5, request_id: `req_seedclaim${i}`, created_at: at, reported_at: null });
+    }
+    // The simulation, run here by the engine as the job runner would have run it, and metered as a job is: 1 unit to start, its bits when it ended.
+    {
+      const input = { ...simulationRequest.parse(DEMO_SIMULATION.request), seed: DEMO_SIMULATION.request.seed } as SimulationJobInput;
+      const sim = simulatorFor(input);
+      const result: SimulationProgress = { points: input.points.map((_, i) => runPoint(sim, i, engineRules(input))) };
+      const units = unitsForBits(result.points.reduce((a, p) => a + p.counts.infoBits, 0));
+      const id = newJobId("sim");
+      const [created, ended] = [ago(DEMO_SIMULATION.days), ago(DEMO_SIMULATION.days - DEMO_SIMULATION.seconds / 86_400)];
+      await tx
+        .insertInto("jobs")
+        .values({ id, org_id: org.id, api_key_id: ci.id, kind: "simulation", input: JSON.stringify(input), status: "done", result: JSON.stringify(result), progress: JSON.stringify(result), units, attempts: 1, created_at: created, started_at: created, updated_at: ended, finished_at: ended })
+        .execute();
+      rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "simulations.create", method: "POST", status: 202, units: 1, duration_ms: 3.1, request_id: "req_seedsim0", created_at: created, reported_at: null });
+      rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "jobs.simulation", method: "JOB", status: 200, units, duration_ms: DEMO_SIMULATION.seconds * 1000, request_id: id, created_at: ended, reported_at: null });
     }
     for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
     // Each key was last used at its latest call; keys without calls were never used.

@@ -6,12 +6,14 @@
  */
 import { beforeAll, describe, expect, test } from "vitest";
 import { getDb, type Db } from "@/db";
-import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
+import { DEMO_ORG, DEMO_PASSWORD, DEMO_SIMULATION, DEMO_USERS, seedDemo } from "@/db/seed/demo";
 import type { Org } from "@/db/schema";
 import { verifyPassword } from "@/lib/auth/passwords";
 import { listAuditEntries } from "@/lib/console/audit";
 import { listOrgClaims } from "@/lib/console/claims";
 import { listOrgKeys } from "@/lib/console/keys";
+import { listOrgSimulations, orgSimulation } from "@/lib/console/simulations";
+import { clopperPearson } from "../helpers/sim-interval";
 
 let db: Db;
 let org: Org;
@@ -204,11 +206,33 @@ describe("demo scenario", () => {
     for (const l of labels) expect(l.latestVerdict).toBe(shown.find((c) => c.label === l.label)!.verdict);
   });
 
+  test("one finished simulation with a curve to show: the (7,4) Hamming FER inside its 99 % interval at every p, metered to the key that started it", async () => {
+    const { simulations } = await listOrgSimulations(db, org, { limit: 20 });
+    expect(simulations).toHaveLength(1);
+    const sim = await orgSimulation(db, org, simulations[0]!.id);
+    expect(sim).toMatchObject({ status: "done", progress: 1, seed: DEMO_SIMULATION.request.seed, code: { n: 7, k: 4 } });
+    expect(Date.parse(sim.createdAt)).toBeLessThan(now.getTime());
+    for (const pt of sim.points) {
+      expect(pt.stoppedBy).toBe("minBitErrors");
+      // A perfect single-error-correcting code fails on two or more flips: FER = 1 − (1−p)^7 − 7p(1−p)^6 (Hamming 1950); 99 % Clopper–Pearson (Clopper & Pearson 1934).
+      const fer = 1 - (1 - pt.x) ** 7 - 7 * pt.x * (1 - pt.x) ** 6;
+      const [lo, hi] = clopperPearson(pt.counts.frameErrors, pt.counts.frames, 0.99);
+      expect(fer, `p = ${pt.x}`).toBeGreaterThan(lo);
+      expect(fer, `p = ${pt.x}`).toBeLessThan(hi);
+    }
+    const row = await db.selectFrom("jobs").selectAll().where("id", "=", sim.id).executeTakeFirstOrThrow();
+    const metered = await db.selectFrom("usage_events").selectAll().where("org_id", "=", org.id).where("endpoint", "in", ["simulations.create", "jobs.simulation"]).execute();
+    expect(metered.map((e) => [e.endpoint, e.api_key_id, e.units]).sort()).toEqual([
+      ["jobs.simulation", row.api_key_id, Math.ceil(sim.points.reduce((a, q) => a + q.counts.infoBits, 0) / 2 ** 26)],
+      ["simulations.create", row.api_key_id, 1],
+    ]);
+  });
+
   test("seeding again changes nothing", async () => {
-    const count = async (t: "users" | "api_keys" | "usage_events" | "audit_log" | "claims") =>
+    const count = async (t: "users" | "api_keys" | "usage_events" | "audit_log" | "claims" | "jobs") =>
       Number((await db.selectFrom(t).select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n);
-    const before = await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims")]);
+    const before = await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims"), count("jobs")]);
     expect(await seedDemo(db)).toBe(org.id);
-    expect(await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims")])).toEqual(before);
+    expect(await Promise.all([count("users"), count("api_keys"), count("usage_events"), count("audit_log"), count("claims"), count("jobs")])).toEqual(before);
   });
 });

@@ -11,7 +11,7 @@ import { runPoint } from "@/lib/core/sim/run";
 import { databaseQueue } from "@/lib/jobs/queue";
 import { runJobs } from "@/lib/jobs/runner";
 import { jobKinds, type SimulationJobInput } from "@/lib/jobs/simulation-kind";
-import { api, expectProblem } from "../helpers/api";
+import { api, expectProblem, postJson } from "../helpers/api";
 import { consoleCall, makeConsoleOrg } from "../helpers/console";
 import { clopperPearson } from "../helpers/sim-interval";
 
@@ -144,7 +144,22 @@ describe("a simulation started from the console", () => {
     expect(events.slice(0, -1).every((e) => e.name === "progress")).toBe(true);
   });
 
-  it("a malformed id, a claim's or another org's job are 404", async () => {
+  it("a simulated claim's job, as the Claims page links it, opens as a simulation with its code's n and k", async () => {
+    const fx = await makeConsoleOrg();
+    const claim = { label: "fw-link", target: { metric: "fer", atMost: 1e-3 }, evidence: { mode: "simulated", code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, at: 1e-3, seed: 4 } };
+    const res = await postJson("/api/v1/claims", claim, `Bearer ${fx.keys.owner.key}`);
+    expect(res.status, res.text).toBe(202);
+    const listed = await consoleCall("GET", `/api/console/orgs/${fx.org.slug}/claims`, { cookie: fx.billing.cookie });
+    const jobId = listed.body.claims[0].jobId as string;
+    expect(`/simulations/${jobId}`).toBe(res.body.simulation);
+    const one = await consoleCall("GET", `/api/console/orgs/${fx.org.slug}/simulations/${jobId}`, { cookie: fx.billing.cookie });
+    expect(one.status).toBe(200);
+    // Hamming (7,4): n = 7, k = 4 (Hamming 1950).
+    expect(one.body.simulation.code).toEqual({ name: "Hamming (7,4)", n: 7, k: 4 });
+    expect(one.body.simulation.request).not.toHaveProperty("decide");
+  });
+
+  it("a malformed id or another org's job is 404", async () => {
     const fx = await makeConsoleOrg();
     const base = `/api/console/orgs/${fx.org.slug}/simulations`;
     for (const id of ["nope", "sim-../../x", fx.otherSimulation]) expectProblem(await consoleCall("GET", `${base}/${encodeURIComponent(id)}`, { cookie: fx.owner.cookie }), 404, "not-found");

@@ -77,6 +77,11 @@ const exp = (v: number) => {
   const e = Math.round(Math.log10(v));
   return e === 0 ? "1" : `1e${e}`;
 };
+/** Whole decibels across the (whole-number) domain; every other one on a wide sweep. */
+const dbTicks = ([lo, hi]: [number, number]) => {
+  const step = hi - lo > 12 ? 2 : 1;
+  return Array.from({ length: Math.floor((hi - lo) / step) + 1 }, (_, i) => lo + i * step);
+};
 const tick = { fill: "var(--pa-ink-2)", fontSize: 12 };
 const ink = "var(--pa-ink)";
 
@@ -93,7 +98,7 @@ export const ErrorRatePlot = forwardRef<HTMLDivElement, { model: PlotModel; rate
             scale={model.xLog ? "log" : "linear"}
             domain={model.xDomain}
             allowDataOverflow
-            ticks={model.xLog ? decadeTicks(model.xDomain[0], model.xDomain[1]).filter((t) => t >= model.xDomain[0] && t <= model.xDomain[1]) : undefined}
+            ticks={model.xLog ? decadeTicks(model.xDomain[0], model.xDomain[1]).filter((t) => t >= model.xDomain[0] && t <= model.xDomain[1]) : dbTicks(model.xDomain)}
             tickFormatter={(v: number) => (model.xLog ? exp(v) : String(Math.round(v * 10) / 10))}
             tick={tick}
             label={{ value: model.xLabel, position: "insideBottom", offset: -16, style: { fill: "var(--pa-ink-2)", fontSize: 12 } }}
