@@ -123,6 +123,17 @@ describe("the Simulations section", { timeout: 300_000 }, () => {
       await expect.poll(() => slowRow.innerText(), { timeout: 30_000 }).toMatch(/cancelled/);
       expect(await slowRow.getByRole("button", { name: `Cancel ${slow}` }).count()).toBe(0);
       expect(await layoutProblems(page)).toEqual([]);
+
+      // The demo's own simulation (db/seed/demo.ts): (7,4) Hamming on a BSC, p on a log axis, no Shannon limit there.
+      const seeded = page.getByRole("row").filter({ hasText: /hamming r=3[\s\S]*BSC/ });
+      await seeded.getByRole("link").click();
+      const bscPlot = page.getByRole("img", { name: /^Bit and frame error rates against crossover probability p/ });
+      await expect.poll(() => bscPlot.locator("path.recharts-symbols").count(), { timeout: 30_000 }).toBe(8);
+      expect(await bscPlot.locator("svg text").filter({ hasText: "Shannon limit" }).count()).toBe(0);
+      await settle(page);
+      await bscPlot.evaluate((el) => el.closest("section")!.scrollIntoView({ block: "start" }));
+      await capture(page, "simulation-bsc-1280");
+      expect(await layoutProblems(page)).toEqual([]);
     } finally {
       await s.close();
     }
@@ -138,6 +149,7 @@ describe("the Simulations section", { timeout: 300_000 }, () => {
       await page.getByRole("progressbar", { name: `Progress of ${sweep}` }).waitFor();
       await settle(page);
       expect(await layoutProblems(page)).toEqual([]);
+      await page.getByRole("heading", { name: "Simulations, newest first" }).evaluate((el) => el.scrollIntoView({ block: "start" }));
       await capture(page, "simulations-390");
       await page.goto(`${e2e.baseUrl}/console/${ORG}/simulations/${sweep}`);
       const plot = page.getByRole("img", { name: /^Bit and frame error rates/ });
