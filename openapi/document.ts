@@ -162,6 +162,8 @@ function addTypes(components: Record<string, unknown>): void {
     if (done.has(s)) return;
     done.add(s);
     for (const k of ["anyOf", "oneOf", "allOf", "prefixItems"]) for (const x of (s[k] as unknown[] | undefined) ?? []) if (isSchema(x)) visit(x);
+    // An empty schema allows anything, as `true` does; the renderer accepts only the latter here (a record of unknown values).
+    if (isSchema(s.additionalProperties) && Object.keys(s.additionalProperties).length === 0) s.additionalProperties = true;
     for (const k of ["items", "not", "if", "then", "else", "additionalProperties"]) if (isSchema(s[k])) visit(s[k]);
     for (const x of Object.values((s.properties as Schema | undefined) ?? {})) if (isSchema(x)) visit(x);
     if (s.type !== undefined || s.$ref !== undefined) return;
