@@ -33,7 +33,7 @@ for (const sig of ["SIGINT", "SIGTERM"] as const) process.on(sig, () => stop.abo
 const db = await getDb();
 console.log(`runner ${holder}: ${poolLimits.batchThreads} threads, lease ${lease} ms, kinds ${jobKinds.map((k) => k.kind).join(", ")}`);
 await runJobs(
-  { queue: databaseQueue(db), kinds: jobKinds, holder, leaseMs: lease, heartbeatMs: Math.min(500, lease / 4), parallel: poolLimits.batchThreads, log: (l) => console.log(l) },
+  { queue: databaseQueue(db), kinds: jobKinds, holder, leaseMs: lease, heartbeatMs: Math.min(500, lease / 4), parallel: poolLimits.batchThreads + 1, log: (l) => console.log(l) },
   stop.signal,
 );
 await closePools();
