@@ -96,6 +96,9 @@ function key(c: Context, id: number, details: Record<string, unknown>): Sentence
   return name ? [`“${name}” (`, ref, ")"] : [ref];
 }
 
+/** A simulation's id as code, linked to its page. */
+const simulation = (c: Context, id: string): SentencePart => ({ text: id, style: "code", href: `/console/${c.org.slug}/simulations/${id}` });
+
 /** The overlap as it stands now: still running, over, or cut short by a later revocation (which has its own entry). */
 function oldKeyTense(old: { revoked_at: string | null } | undefined, ends: string, now: string) {
   if (old?.revoked_at && old.revoked_at < ends) return "was to work";
@@ -142,6 +145,16 @@ export const SENTENCES: Record<string, Describe> = {
       ` received a bench credential: a test key${scopes.length ? ` for ${list(scopes)}` : ""} that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.`,
     ];
   },
+  "simulation.started": (c, e, who) => {
+    const points = typeof e.details.points === "number" ? e.details.points : undefined;
+    return [who, " started the simulation ", simulation(c, e.targetId), points ? ` (${points} ${points === 1 ? "point" : "points"}).` : "."];
+  },
+  "simulation.cancelled": (c, e, who) => [
+    who,
+    " cancelled the simulation ",
+    simulation(c, e.targetId),
+    e.details.was === "queued" ? " before it started." : "; it stopped within a second, keeping the chunks it had finished.",
+  ],
   "key.revoked": (c, e, who) => [who, " revoked the key ", ...key(c, Number(e.targetId), e.details), "; it stopped working at once."],
   "member.invited": (_c, e, who) => {
     const replaced = Array.isArray(e.details.replaced) && e.details.replaced.length > 0;

@@ -28,6 +28,7 @@ let successorPrefix: string;
 let keyEnds: string;
 let overlapEnds: string;
 let joiner: Person;
+let simulationId: string;
 
 beforeAll(async () => {
   fx = await makeConsoleOrg();
@@ -51,6 +52,8 @@ beforeAll(async () => {
   // Renewed twice, recorded once.
   await ok(await consoleCall("POST", `${org}/bench-credential`, { cookie: fx.developer.cookie }), "bench.credential_issued");
   expect((await consoleCall("POST", `${org}/bench-credential`, { cookie: fx.developer.cookie })).status).toBe(201);
+  simulationId = (await ok(await consoleCall("POST", `${org}/simulations`, { cookie: fx.developer.cookie, body: { channel: { type: "bsc" }, points: [0.1, 0.2], stop: { maxBits: 1000 } } }), "simulation.started")).body.simulation.id;
+  await ok(await consoleCall("DELETE", `${org}/simulations/${simulationId}`, { cookie: fx.developer.cookie }), "simulation.cancelled");
   await ok(await consoleCall("PATCH", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie, body: { role: "billing" } }), "member.role_changed");
   await ok(await consoleCall("DELETE", `${org}/invitations/${fx.invitation.id}`, { cookie: fx.coOwner.cookie }), "invitation.revoked");
   await ok(await consoleCall("DELETE", `${org}/members/${fx.spare.id}`, { cookie: fx.owner.cookie }), "member.removed");
@@ -198,6 +201,9 @@ describe("each entry as a sentence", () => {
     expect(text(one("member.invited").sentence)).toBe(`owner invited ${joiner.email} to join as a developer.`);
     expect(one("member.invited").sentence).toContainEqual({ text: joiner.email, style: "email" });
     expect(text(one("member.joined").sentence)).toBe("joiner joined as a developer.");
+    expect(text(one("simulation.started").sentence)).toBe(`developer started the simulation ${simulationId} (2 points).`);
+    expect(text(one("simulation.cancelled").sentence)).toBe(`developer cancelled the simulation ${simulationId} before it started.`);
+    expect(one("simulation.cancelled").sentence).toContainEqual({ text: simulationId, style: "code", href: `/console/${fx.org.slug}/simulations/${simulationId}` });
     expect(text(one("bench.credential_issued").sentence)).toBe(
       "developer received a bench credential: a test key for compute, usage:read and claims that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.",
     );

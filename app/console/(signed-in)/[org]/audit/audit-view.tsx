@@ -20,6 +20,8 @@ const ACTIONS: Record<string, string> = {
   "key.rotated": "rotated a key",
   "key.revoked": "revoked a key",
   "bench.credential_issued": "received a bench credential",
+  "simulation.started": "started a simulation",
+  "simulation.cancelled": "cancelled a simulation",
   "member.invited": "invited someone",
   "invitation.revoked": "withdrew an invitation",
   "member.joined": "joined",
