@@ -125,7 +125,7 @@ describe("the Simulations section", { timeout: 300_000 }, () => {
       expect(await layoutProblems(page)).toEqual([]);
 
       // The demo's own simulation (db/seed/demo.ts): (7,4) Hamming on a BSC, p on a log axis, no Shannon limit there.
-      const seeded = page.getByRole("row").filter({ hasText: /hamming r=3[\s\S]*BSC/ });
+      const seeded = page.getByRole("row").filter({ hasText: /Hamming \(7,4\)[\s\S]*BSC/ });
       await seeded.getByRole("link").click();
       const bscPlot = page.getByRole("img", { name: /^Bit and frame error rates against crossover probability p/ });
       await expect.poll(() => bscPlot.locator("path.recharts-symbols").count(), { timeout: 30_000 }).toBe(8);
