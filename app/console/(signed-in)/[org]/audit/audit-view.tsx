@@ -3,11 +3,12 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { useId, useState } from "react";
+import { CursorPager, useCursorPages } from "@/components/console/cursor-pages";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
 import { Email } from "@/components/console/email";
 import { Empty, LoadError, Loading } from "@/components/console/states";
-import { buttonSecondary, buttonSmall, labelBase, panel, selectBase, tableHead } from "@/components/console/ui";
+import { labelBase, panel, selectBase, tableHead } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
 import { queryKeys } from "@/lib/console-client/query-keys";
@@ -69,10 +70,8 @@ function Ledger({ org }: { org: string }) {
   const [actor, setActor] = useState("");
   const [action, setAction] = useState("");
   const [limit, setLimit] = useState<number>(25);
-  // Cursor pagination: the cursors of the pages visited so far, newest page first.
-  const [cursors, setCursors] = useState<(string | undefined)[]>([undefined]);
-  const page = cursors.length - 1;
-  const cursor = cursors[page];
+  const pages = useCursorPages();
+  const { cursor, restart, page } = pages;
   const ids = { actor: useId(), action: useId(), limit: useId() };
 
   const members = useQuery({ queryKey: queryKeys.members(org), queryFn: ({ signal }) => consoleApi.members(org, signal) });
@@ -83,7 +82,6 @@ function Ledger({ org }: { org: string }) {
     placeholderData: keepPreviousData,
   });
 
-  const restart = () => setCursors([undefined]);
 
   return (
     <div className="flex flex-col gap-4">
@@ -192,28 +190,14 @@ function Ledger({ org }: { org: string }) {
               </tbody>
             </table>
           </div>
-          <div className="flex flex-wrap items-center justify-between gap-2 border-t border-rule bg-sunken/50 px-3 py-2 text-sm text-ink-2">
-            <p aria-live="polite">
-              Page {page + 1} · {audit.data.entries.length} entr{audit.data.entries.length === 1 ? "y" : "ies"}
-              {audit.isFetching ? " · loading…" : ""}
-            </p>
-            <div className="flex gap-2">
-              <button type="button" className={`${buttonSecondary} ${buttonSmall}`} disabled={page === 0} onClick={() => setCursors((c) => c.slice(0, -1))}>
-                Newer
-              </button>
-              <button
-                type="button"
-                className={`${buttonSecondary} ${buttonSmall}`}
-                disabled={!audit.data.nextCursor || audit.isPlaceholderData}
-                onClick={() => {
-                  const next = audit.data.nextCursor;
-                  if (next) setCursors((c) => [...c, next]);
-                }}
-              >
-                Older
-              </button>
-            </div>
-          </div>
+          <CursorPager
+            pages={pages}
+            nextCursor={audit.data.nextCursor}
+            fetching={audit.isFetching}
+            stale={audit.isPlaceholderData}
+            summary={` · ${audit.data.entries.length} entr${audit.data.entries.length === 1 ? "y" : "ies"}`}
+            className="flex flex-wrap items-center justify-between gap-2 border-t border-rule bg-sunken/50 px-3 py-2 text-sm text-ink-2"
+          />
         </div>
       )}
     </div>

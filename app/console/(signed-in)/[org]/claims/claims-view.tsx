@@ -3,11 +3,12 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { useId, useRef, useState, type ReactNode } from "react";
+import { CursorPager, useCursorPages } from "@/components/console/cursor-pages";
 import { CodePanel } from "@/components/console/code-panel";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
 import { Empty, LoadError, Loading } from "@/components/console/states";
-import { buttonSecondary, buttonSmall, labelBase, panel, selectBase } from "@/components/console/ui";
+import { buttonSecondary, labelBase, panel, selectBase } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
 import { evidenceWords, formatConfidence, formatCount, formatRate, intervalWords, targetWords } from "@/lib/console-client/claim-words";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
@@ -152,10 +153,8 @@ function NoClaimsYet() {
 function Claims({ org }: { org: string }) {
   const [label, setLabel] = useState<string | undefined>(undefined);
   const [verdict, setVerdict] = useState<ClaimVerdict | undefined>(undefined);
-  // Cursor pagination: the cursors of the pages visited so far, newest page first.
-  const [cursors, setCursors] = useState<(string | undefined)[]>([undefined]);
-  const page = cursors.length - 1;
-  const filters = { label, verdict, cursor: cursors[page], limit: PAGE_SIZE };
+  const pages = useCursorPages();
+  const filters = { label, verdict, cursor: pages.cursor, limit: PAGE_SIZE };
   const verdictId = useId();
   const history = useRef<HTMLElement>(null);
   const claims = useQuery({ queryKey: queryKeys.claims(org, filters), queryFn: ({ signal }) => consoleApi.claims(org, filters, signal), placeholderData: keepPreviousData });
@@ -173,7 +172,7 @@ function Claims({ org }: { org: string }) {
         selected={label}
         onSelect={(l) => {
           setLabel(l);
-          setCursors([undefined]);
+          pages.restart();
           // Below the lg breakpoint the labels sit above the history: bring the history into view.
           if (!window.matchMedia("(min-width: 64rem)").matches) history.current?.scrollIntoView({ block: "start" });
         }}
@@ -202,7 +201,7 @@ function Claims({ org }: { org: string }) {
               value={verdict ?? ""}
               onChange={(e) => {
                 setVerdict(e.target.value === "" ? undefined : (e.target.value as ClaimVerdict));
-                setCursors([undefined]);
+                pages.restart();
               }}
             >
               <option value="">Any verdict</option>
@@ -240,28 +239,7 @@ function Claims({ org }: { org: string }) {
             ))}
           </ol>
         )}
-        <div className="flex flex-wrap items-center justify-between gap-2 text-sm text-ink-2">
-          <p aria-live="polite">
-            Page {page + 1}
-            {claims.isFetching ? " · loading…" : ""}
-          </p>
-          <div className="flex gap-2">
-            <button type="button" className={`${buttonSecondary} ${buttonSmall}`} disabled={page === 0} onClick={() => setCursors((c) => c.slice(0, -1))}>
-              Newer
-            </button>
-            <button
-              type="button"
-              className={`${buttonSecondary} ${buttonSmall}`}
-              disabled={!data.nextCursor || claims.isPlaceholderData}
-              onClick={() => {
-                const next = data.nextCursor;
-                if (next) setCursors((c) => [...c, next]);
-              }}
-            >
-              Older
-            </button>
-          </div>
-        </div>
+        <CursorPager pages={pages} nextCursor={data.nextCursor} fetching={claims.isFetching} stale={claims.isPlaceholderData} />
       </section>
     </div>
   );

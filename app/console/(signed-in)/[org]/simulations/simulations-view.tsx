@@ -3,11 +3,12 @@
 import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { useState } from "react";
+import { CursorPager, useCursorPages } from "@/components/console/cursor-pages";
 import { ConfirmDialog } from "@/components/console/confirm-dialog";
 import { SectionGate, useCurrentOrg } from "@/components/console/org-context";
 import { PageHeader } from "@/components/console/page-header";
 import { Empty, LoadError, Loading } from "@/components/console/states";
-import { buttonQuietDanger, buttonSecondary, buttonSmall, panel, stackBody, stackCell, stackHead, stackRow, stackTable, tableHead } from "@/components/console/ui";
+import { buttonQuietDanger, buttonSmall, panel, stackBody, stackCell, stackHead, stackRow, stackTable, tableHead } from "@/components/console/ui";
 import { consoleApi } from "@/lib/console-client/api";
 import { formatDateTime, formatRelative } from "@/lib/console-client/format";
 import { queryKeys } from "@/lib/console-client/query-keys";
@@ -63,10 +64,9 @@ function Row({ sim, org, canCancel, onAsk, onEnd }: { sim: SimulationItem; org: 
 
 function List({ org, role }: { org: string; role: Role | undefined }) {
   const qc = useQueryClient();
-  const [cursors, setCursors] = useState<(string | undefined)[]>([undefined]);
+  const pages = useCursorPages();
   const [asking, setAsking] = useState<SimulationItem | null>(null);
-  const page = cursors.length - 1;
-  const filters = { cursor: cursors[page], limit: PAGE_SIZE };
+  const filters = { cursor: pages.cursor, limit: PAGE_SIZE };
   const list = useQuery({ queryKey: queryKeys.simulations(org, filters), queryFn: ({ signal }) => consoleApi.simulations(org, filters, signal), placeholderData: keepPreviousData });
   const refresh = () => void qc.invalidateQueries({ queryKey: ["console", "org", org, "simulations"] });
 
@@ -115,28 +115,7 @@ function List({ org, role }: { org: string; role: Role | undefined }) {
           </table>
         </div>
       )}
-      <div className="flex flex-wrap items-center justify-between gap-2 text-sm text-ink-2">
-        <p aria-live="polite">
-          Page {page + 1}
-          {list.isFetching ? " · loading…" : ""}
-        </p>
-        <div className="flex gap-2">
-          <button type="button" className={`${buttonSecondary} ${buttonSmall}`} disabled={page === 0} onClick={() => setCursors((c) => c.slice(0, -1))}>
-            Newer
-          </button>
-          <button
-            type="button"
-            className={`${buttonSecondary} ${buttonSmall}`}
-            disabled={!list.data.nextCursor || list.isPlaceholderData}
-            onClick={() => {
-              const next = list.data.nextCursor;
-              if (next) setCursors((c) => [...c, next]);
-            }}
-          >
-            Older
-          </button>
-        </div>
-      </div>
+      <CursorPager pages={pages} nextCursor={list.data.nextCursor} fetching={list.isFetching} stale={list.isPlaceholderData} />
       <ConfirmDialog
         open={asking !== null}
         title="Cancel this simulation?"
