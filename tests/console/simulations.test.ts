@@ -4,40 +4,18 @@
  * in this process; the counts are checked against lib/core/sim run directly with the same seed, and the uncoded BSC
  * BER against its exact value p inside a 99 % Clopper–Pearson interval (Clopper & Pearson 1934, scipy-checked helper).
  */
-import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { getDb } from "@/db";
+import { describe, expect, it, vi } from "vitest";
 import { engineRules, simulatorFor } from "@/lib/api/simulation-spec";
 import { runPoint } from "@/lib/core/sim/run";
-import { databaseQueue } from "@/lib/jobs/queue";
-import { runJobs } from "@/lib/jobs/runner";
-import { jobKinds, type SimulationJobInput } from "@/lib/jobs/simulation-kind";
+import type { SimulationJobInput } from "@/lib/jobs/simulation-kind";
+import { finished, runnerForThisFile, until } from "../helpers/jobs";
 import { api, expectProblem, postJson } from "../helpers/api";
 import { consoleCall, makeConsoleOrg } from "../helpers/console";
 import { clopperPearson } from "../helpers/sim-interval";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
 
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
-let stopRunner: AbortController;
-let runner: Promise<void>;
-beforeAll(async () => {
-  stopRunner = new AbortController();
-  runner = runJobs({ queue: databaseQueue(await getDb()), kinds: jobKinds, holder: "console-test-runner", heartbeatMs: 100, idleMs: 20, parallel: 2 }, stopRunner.signal);
-});
-afterAll(async () => {
-  stopRunner.abort();
-  await runner;
-});
-
-const finished = (s: { status: string }) => ["done", "cancelled", "failed"].includes(s.status);
-async function until<T>(read: () => Promise<T>, done: (v: NoInfer<T>) => boolean, ms = 60_000): Promise<T> {
-  const t0 = Date.now();
-  for (;;) {
-    const v = await read();
-    if (done(v) || Date.now() - t0 > ms) return v;
-    await wait(50);
-  }
-}
+runnerForThisFile("console-test-runner");
 
 const UNCODED = { channel: { type: "bsc" }, points: [0.02, 0.005], stop: { minBitErrors: 300, maxBits: 1e8 }, seed: 41 };
 

@@ -1,8 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { getDb } from "@/db";
-import { databaseQueue } from "@/lib/jobs/queue";
-import { runJobs } from "@/lib/jobs/runner";
-import { jobKinds } from "@/lib/jobs/simulation-kind";
+import { describe, expect, it } from "vitest";
+import { runnerForThisFile } from "../helpers/jobs";
 import { expectFieldError, getQuery, postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 
@@ -12,16 +9,7 @@ import { makeOrgWithKey } from "../helpers/fixtures";
  * Truths are known by formula: an uncoded BSC's BER is p; (7,4) Hamming's FER on a BSC is
  * 1 − (1 − p)^7 − 7p(1 − p)^6 (bounded-distance decoding, t = 1).
  */
-let stop: AbortController;
-let runner: Promise<void>;
-beforeAll(async () => {
-  stop = new AbortController();
-  runner = runJobs({ queue: databaseQueue(await getDb()), kinds: jobKinds, holder: "claims-runner", heartbeatMs: 100, idleMs: 20, parallel: 2 }, stop.signal);
-});
-afterAll(async () => {
-  stop.abort();
-  await runner;
-});
+runnerForThisFile("claims-runner");
 
 async function decided(location: string, auth: string) {
   for (let i = 0; i < 1200; i++) {

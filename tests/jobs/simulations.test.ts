@@ -1,12 +1,10 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import { fileURLToPath } from "node:url";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { getDb } from "@/db";
+import { afterAll, describe, expect, it } from "vitest";
 import { engineRules, simulatorFor } from "@/lib/api/simulation-spec";
 import { runPoint } from "@/lib/core/sim/run";
-import { databaseQueue } from "@/lib/jobs/queue";
-import { runJobs } from "@/lib/jobs/runner";
-import { jobKinds, type SimulationJobInput } from "@/lib/jobs/simulation-kind";
+import type { SimulationJobInput } from "@/lib/jobs/simulation-kind";
+import { finished, runnerForThisFile, until } from "../helpers/jobs";
 import { api, expectFieldError, expectProblem, getQuery, postJson } from "../helpers/api";
 import { makeOrgWithKey } from "../helpers/fixtures";
 import { clopperPearson } from "../helpers/sim-interval";
@@ -18,28 +16,8 @@ import { clopperPearson } from "../helpers/sim-interval";
  * value from all 128 error patterns (as tests/unit/sim-engine.test.ts does for the engine alone).
  */
 const ROOT = fileURLToPath(new URL("../../", import.meta.url));
-const wait = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-let stopRunner: AbortController;
-let runner: Promise<void>;
-beforeAll(async () => {
-  stopRunner = new AbortController();
-  runner = runJobs({ queue: databaseQueue(await getDb()), kinds: jobKinds, holder: "test-runner", heartbeatMs: 100, idleMs: 20, parallel: 2 }, stopRunner.signal);
-});
-afterAll(async () => {
-  stopRunner.abort();
-  await runner;
-});
-
-async function until<T>(read: () => Promise<T>, done: (v: NoInfer<T>) => boolean, ms = 60_000): Promise<T> {
-  const t0 = Date.now();
-  for (;;) {
-    const v = await read();
-    if (done(v) || Date.now() - t0 > ms) return v;
-    await wait(50);
-  }
-}
-const finished = (s: { status: string }) => ["done", "cancelled", "failed"].includes(s.status);
+const runner = runnerForThisFile("test-runner");
 
 /** Exact post-decoding BER of (7,4) Hamming with syndrome decoding on a BSC: every one of the 128 error patterns, the message bits of the decoded word counted. */
 function hamming74Ber(p: number): number {
@@ -198,8 +176,7 @@ describe("a runner killed mid-job", () => {
 
   it("loses nothing: after kill -9 and a restart the job resumes from its last chunk and its counts equal an uninterrupted run's", async () => {
     // This file's own runner stops first, so the process runner is the only one.
-    stopRunner.abort();
-    await runner;
+    await runner.stop();
     const { auth, db } = await makeOrgWithKey();
     const body = { code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.001], stop: { maxBits: 6e8 }, gapSkipping: false, seed: 4242 };
     const res = await postJson("/api/v1/simulations", body, auth);
