@@ -24,3 +24,13 @@ export const cursorParam = z
   .regex(/^[A-Za-z0-9_-]+$/, "The cursor is not one this endpoint returned.")
   .optional()
   .meta({ description: "`nextCursor` of the previous page." });
+
+/** The cursor of a newest-first list ordered by (created_at, id): claims, simulations. */
+export const newestFirstCursor = z.object({ createdAt: z.string(), id: z.string() });
+
+/** The page of `rows` (read with limit + 1, newest first) and the next page's cursor: the last row's (created_at, id), if more remain. */
+export function newestFirstPage<R extends { created_at: string; id: string }>(rows: R[], limit: number): { page: R[]; nextCursor: string | null } {
+  const page = rows.slice(0, limit);
+  const last = page.at(-1);
+  return { page, nextCursor: rows.length > limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+}

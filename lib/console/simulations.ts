@@ -6,7 +6,7 @@ import { insertUsageEvent } from "@/db/queries/usage";
 import type { Org } from "@/db/schema";
 import { createSimulation, enqueueSimulation, presentSimulation, SIMULATION_KIND, simulationJob } from "@/lib/api/endpoints/simulations";
 import { resolveCode } from "@/lib/api/codes";
-import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
+import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "@/lib/api/pagination";
 import type { SimulationRequest } from "@/lib/api/simulation-spec";
 import { actorOf, invalidField, type Caller } from "./common";
 
@@ -17,15 +17,12 @@ import { actorOf, invalidField, type Caller } from "./common";
 
 export const simulationsQuery = z.strictObject({ limit: limitParam(50, 20), cursor: cursorParam });
 
-const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
-
 export async function listOrgSimulations(db: Db, org: Pick<Org, "id">, q: z.output<typeof simulationsQuery>) {
-  const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
+  const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, newestFirstCursor);
   if (q.cursor !== undefined && !before) throw invalidField("/cursor", "The cursor is not one this list returned.");
   const rows = await listJobs(db, org.id, SIMULATION_KIND, q.limit + 1, before);
-  const page = rows.slice(0, q.limit);
-  const last = page.at(-1);
-  return { simulations: page.map(presentSimulation), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+  const { page, nextCursor } = newestFirstPage(rows, q.limit);
+  return { simulations: page.map(presentSimulation), nextCursor };
 }
 
 /**

@@ -12,7 +12,7 @@ import { trialsOf, type SimulationJobInput, type SimulationProgress } from "@/li
 import { at, defineDataEndpoint, Reply } from "../endpoint";
 import { checkActiveJobs, checkSimulation, SIMULATION_KIND } from "./simulations";
 import { ApiError } from "../errors";
-import { cursorParam, decodeCursor, encodeCursor, limitParam } from "../pagination";
+import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
 
 /**
@@ -253,8 +253,6 @@ export const getClaim = defineDataEndpoint({
   },
 });
 
-const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
-
 export const listClaimsEndpoint = defineDataEndpoint({
   id: "claims.list",
   method: "GET",
@@ -279,12 +277,11 @@ export const listClaimsEndpoint = defineDataEndpoint({
   illustration: { summary: ILLUSTRATIVE, value: { data: [illustrate()], nextCursor: null } },
   cost: 0,
   handler: async (q, { db, principal }) => {
-    const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
+    const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, newestFirstCursor);
     if (q.cursor !== undefined && !before) throw new InputError("The cursor is not one this endpoint returned.", ["cursor"]);
     const rows = await listClaims(db, principal.orgId, { label: q.label, verdict: q.verdict, limit: q.limit + 1, before });
-    const page = rows.slice(0, q.limit);
-    const last = page.at(-1);
+    const { page, nextCursor } = newestFirstPage(rows, q.limit);
     const settled = await Promise.all(page.map((r) => settle(db, r)));
-    return { data: settled.map(present), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+    return { data: settled.map(present), nextCursor };
   },
 });

@@ -12,7 +12,7 @@ import type { SimulationJobInput, SimulationProgress } from "@/lib/jobs/simulati
 import { unitsForBits } from "@/lib/jobs/simulation-kind";
 import { defineDataEndpoint, Reply, StreamReply } from "../endpoint";
 import { ApiError } from "../errors";
-import { cursorParam, decodeCursor, encodeCursor, limitParam } from "../pagination";
+import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
 import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_BITS_PER_POINT, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
 
@@ -236,8 +236,6 @@ export const getSimulation = defineDataEndpoint({
   handler: async (_q, { db, principal, params }) => presentSimulation(await simulationJob(db, principal.orgId, params.id!)),
 });
 
-const cursorShape = z.object({ createdAt: z.string(), id: z.string() });
-
 export const listSimulations = defineDataEndpoint({
   id: "simulations.list",
   method: "GET",
@@ -252,12 +250,11 @@ export const listSimulations = defineDataEndpoint({
   illustration: { summary: ILLUSTRATIVE, value: { data: [illustration], nextCursor: null } },
   cost: 0,
   handler: async (q, { db, principal }) => {
-    const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, cursorShape);
+    const before = q.cursor === undefined ? undefined : decodeCursor(q.cursor, newestFirstCursor);
     if (q.cursor !== undefined && !before) throw new InputError("The cursor is not one this endpoint returned.", ["cursor"]);
     const rows = await listJobs(db, principal.orgId, SIMULATION_KIND, q.limit + 1, before);
-    const page = rows.slice(0, q.limit);
-    const last = page.at(-1);
-    return { data: page.map(presentSimulation), nextCursor: rows.length > q.limit && last ? encodeCursor({ createdAt: last.created_at, id: last.id }) : null };
+    const { page, nextCursor } = newestFirstPage(rows, q.limit);
+    return { data: page.map(presentSimulation), nextCursor };
   },
 });
 
