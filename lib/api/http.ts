@@ -4,9 +4,10 @@ import { PoolRefusal, poolLimits, runTask } from "@/lib/jobs/pool";
 import { authenticate, requireScope, type KeyPrincipal } from "./auth";
 import { parseJsonBody, readBodyText } from "./body";
 import { Reply, StreamReply, type Endpoint, type Method } from "./endpoint";
-import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem, type ProblemCode } from "./errors";
+import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
+import { replyJson } from "./pool-reply";
 import { consumeRate } from "./rate-limit";
 import { requestIdFor } from "./request-id";
 import { checkWork, unitsFor, workLimits } from "./work";
@@ -58,11 +59,7 @@ function poolProblem(r: PoolRefusal): ApiError {
 /** Run a math endpoint's handler: on the event loop when its work is small, else on the pool's request lane. Returns the JSON text. */
 async function runCompute(e: Extract<Endpoint, { kind: "compute" }>, input: unknown, work: number): Promise<string> {
   if (work <= workLimits.inline) return JSON.stringify(e.handler(input));
-  const reply = await runTask("request", { kind: "endpoint", id: e.id, input }, poolLimits.deadlineMs);
-  if (reply.ok) return reply.json;
-  const err = reply.error;
-  if (err.kind === "input") throw new InputError(err.message, err.path);
-  throw new ApiError(err.code as ProblemCode, err.detail, err.extra);
+  return replyJson(await runTask("request", { kind: "endpoint", id: e.id, input }, poolLimits.deadlineMs));
 }
 
 const routeCache = new WeakMap<Endpoint, (req: Request) => Promise<Response>>();

@@ -1,5 +1,5 @@
+import { replyJson } from "@/lib/api/pool-reply";
 import { BITS_PER_UNIT, engineRules, simulatorFor, type SimulationRequest } from "@/lib/api/simulation-spec";
-import { InputError } from "@/lib/core/errors";
 import { zeroCounts, type SimCounts } from "@/lib/core/sim/engine";
 import { addCounts, chunkFrames, stopReason } from "@/lib/core/sim/run";
 import { decide, sequentialPlan } from "@/lib/core/stats/sequential";
@@ -50,9 +50,7 @@ export const simulationKind: JobKind = {
     return erasePlan<PointState, SimCounts>({
       points: r.points.length,
       async run(point, chunk) {
-        const reply = await runTask("batch", { kind: "sim-chunk", request: r, point, chunk, frames: chunkFrames(sim, rules, chunk) });
-        if (!reply.ok) throw new InputError(reply.error.kind === "input" ? reply.error.message : reply.error.detail, []);
-        return JSON.parse(reply.json) as SimCounts;
+        return JSON.parse(replyJson(await runTask("batch", { kind: "sim-chunk", request: r, point, chunk, frames: chunkFrames(sim, rules, chunk) }))) as SimCounts;
       },
       fold(_point, state, counts) {
         const total = state ? { ...state.counts } : zeroCounts();

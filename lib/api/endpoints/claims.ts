@@ -213,7 +213,9 @@ export const createClaim = defineDataEndpoint({
       await insertClaim(db, row);
       return new Reply(202, present(row), `/claims/${row.id}`);
     }
-    const decision = at([], () => (req.evidence.mode === "analytic" ? decideAnalytic(target, req.evidence as never) : decideMeasured(target, req.confidence, req.evidence as never)));
+    // Past the simulated branch: a const keeps the narrowing inside the closure.
+    const evidence = req.evidence;
+    const decision = at([], () => (evidence.mode === "analytic" ? decideAnalytic(target, evidence) : decideMeasured(target, req.confidence, evidence)));
     const row: Claim = {
       id: newJobId("clm"),
       org_id: principal.orgId,

@@ -12,6 +12,7 @@ import type { SimulationJobInput, SimulationProgress } from "@/lib/jobs/simulati
 import { unitsForBits } from "@/lib/jobs/simulation-kind";
 import { defineDataEndpoint, Reply, StreamReply } from "../endpoint";
 import { ApiError } from "../errors";
+import { replyJson } from "../pool-reply";
 import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
 import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_BITS_PER_POINT, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
@@ -36,11 +37,7 @@ export async function checkActiveJobs(db: Parameters<typeof countUnfinishedJobs>
 
 /** Build the request's simulator on the request lane of the pool (it can take thousands of decodes): its errors are the request's. */
 export async function checkSimulation(r: SimulationJobInput): Promise<void> {
-  const reply = await runTask("request", { kind: "sim-check", request: r }, poolLimits.deadlineMs);
-  if (!reply.ok) {
-    if (reply.error.kind === "input") throw new InputError(reply.error.message, reply.error.path);
-    throw new ApiError(reply.error.code as never, reply.error.detail, reply.error.extra);
-  }
+  replyJson(await runTask("request", { kind: "sim-check", request: r }, poolLimits.deadlineMs));
 }
 
 const rate = z
