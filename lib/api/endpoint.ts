@@ -89,13 +89,20 @@ export type ComputeEndpoint<I extends z.ZodType = AnyZod, O extends z.ZodType = 
 export type DataEndpoint<I extends z.ZodType = AnyZod, O extends z.ZodType = AnyZod> = DataSpec<I, O> & { kind: "data" };
 export type Endpoint = ComputeEndpoint | DataEndpoint;
 
-/** Run `fn`; an InputError it throws gets `path` put in front of its own (for the field's JSON pointer). */
+/** Run `fn`; an InputError it throws (or its promise rejects with) gets `path` put in front of its own (for the field's JSON pointer). */
 export function at<T>(path: (string | number)[], fn: () => T): T {
+  const prefixed = (e: unknown) => (e instanceof InputError ? new InputError(e.message, [...path, ...e.path]) : e);
   try {
-    return fn();
+    const v = fn();
+    return (
+      v instanceof Promise
+        ? v.catch((e: unknown) => {
+            throw prefixed(e);
+          })
+        : v
+    ) as T;
   } catch (e) {
-    if (e instanceof InputError) throw new InputError(e.message, [...path, ...e.path]);
-    throw e;
+    throw prefixed(e);
   }
 }
 

@@ -87,6 +87,12 @@ describe("simulated claims", () => {
     expect(list.body.data.map((c: { verdict: string }) => c.verdict)).toEqual(["refuted"]);
   });
 
+  it("a simulation the engine cannot run is refused at the evidence's own field (soft decisions need a binary code)", async () => {
+    const { auth } = await makeOrgWithKey();
+    const evidence = { code: { family: "rs", m: 4, n: 15, k: 11 }, channel: { type: "awgn", modulation: "bpsk", decisions: "soft" }, at: 3 };
+    expectFieldError(await postJson("/api/v1/claims", simulated(evidence, { metric: "fer", atMost: 1e-3 }), auth), "/evidence/code");
+  });
+
   it("a coded BER claim is refused with the reason and the fix (decide it on FER)", async () => {
     const { auth } = await makeOrgWithKey();
     const p = expectFieldError(await postJson("/api/v1/claims", simulated({ code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, at: 0.01 }, { metric: "ber", atMost: 1e-3 }), auth), "/target/metric");
