@@ -7,10 +7,9 @@ import type { Claim } from "@/db/schema";
 import { InputError } from "@/lib/core/errors";
 import { newJobId, JOB_ID_PATTERN } from "@/lib/jobs/ids";
 import { analyticEvidence, claimSimulation, decideAnalytic, decideMeasured, decideSimulated, measuredEvidence, resolveTarget, simulatedEvidence, targetInput, type Decision, type Target } from "../claim-evidence";
-import { databaseQueue } from "@/lib/jobs/queue";
 import { trialsOf, type SimulationJobInput, type SimulationProgress } from "@/lib/jobs/simulation-kind";
 import { at, defineDataEndpoint, Reply } from "../endpoint";
-import { checkActiveJobs, checkSimulation, SIMULATION_KIND } from "./simulations";
+import { enqueueSimulation } from "./simulations";
 import { ApiError } from "../errors";
 import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
@@ -205,10 +204,7 @@ export const createClaim = defineDataEndpoint({
     if (req.evidence.mode === "simulated") {
       const evidence = req.evidence;
       const job = at([], () => claimSimulation(target, req.confidence, evidence, evidence.seed ?? randomInt(0, 2 ** 32 - 1))) as SimulationJobInput;
-      await checkActiveJobs(db, principal.orgId);
-      await at(["evidence"], () => checkSimulation(job));
-      const jobId = newJobId("sim");
-      await databaseQueue(db).enqueue({ id: jobId, orgId: principal.orgId, apiKeyId: principal.keyId, kind: SIMULATION_KIND, input: job });
+      const jobId = (await at(["evidence"], () => enqueueSimulation(db, principal.orgId, principal.keyId, job))).id;
       const row: Claim = { id: newJobId("clm"), org_id: principal.orgId, api_key_id: principal.keyId, label: req.label, mode: "simulated", verdict: "pending", request: JSON.stringify({ ...req, evidence: { ...evidence, seed: job.seed } }), outcome: null, job_id: jobId, created_at: now, decided_at: null };
       await insertClaim(db, row);
       return new Reply(202, present(row), `/claims/${row.id}`);

@@ -15,7 +15,7 @@ import { ApiError } from "../errors";
 import { replyJson } from "../pool-reply";
 import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
-import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_BITS_PER_POINT, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
+import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
 
 /**
  * Simulations: a sweep run as a job by the job runner (`npm run worker`), read while it runs, streamed as
@@ -25,7 +25,7 @@ import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_BITS_PER_POINT, MAX_POINTS, MAX_SEC
 export const SIMULATION_KIND = "simulation";
 
 /** Throw the job-limit problem when the organisation already has as many jobs queued or running as it may. */
-export async function checkActiveJobs(db: Parameters<typeof countUnfinishedJobs>[0], orgId: number): Promise<void> {
+async function checkActiveJobs(db: Parameters<typeof countUnfinishedJobs>[0], orgId: number): Promise<void> {
   const active = await countUnfinishedJobs(db, orgId);
   if (active >= MAX_ACTIVE_JOBS) {
     throw new ApiError("job-limit", `The organisation has ${active} simulations or simulated claims queued or running; at most ${MAX_ACTIVE_JOBS} at once. Wait for one to end or cancel one (DELETE /simulations/{id}).`, {
@@ -36,7 +36,7 @@ export async function checkActiveJobs(db: Parameters<typeof countUnfinishedJobs>
 }
 
 /** Build the request's simulator on the request lane of the pool (it can take thousands of decodes): its errors are the request's. */
-export async function checkSimulation(r: SimulationJobInput): Promise<void> {
+async function checkSimulation(r: SimulationJobInput): Promise<void> {
   replyJson(await runTask("request", { kind: "sim-check", request: r }, poolLimits.deadlineMs));
 }
 
@@ -174,12 +174,9 @@ const illustration: View = {
 /**
  * Check a validated request against the budgets, draw its seed when it has none, build its simulator once (so its
  * errors are the request's), and queue it for the runner. The API and the console both start simulations here;
- * `apiKeyId` is null for one started from the console.
+ * `apiKeyId` is null for one started from the console; a simulated claim's request carries its seed and decision rule.
  */
-export async function enqueueSimulation(db: Parameters<typeof findJob>[0], orgId: number, apiKeyId: number | null, req: SimulationRequest): Promise<Job> {
-  for (const key of ["maxBits", "maxFrames"] as const) {
-    if ((req.stop[key] ?? 0) > MAX_BITS_PER_POINT) throw new InputError(`At most 2^40 per point.`, ["stop", key]);
-  }
+export async function enqueueSimulation(db: Parameters<typeof findJob>[0], orgId: number, apiKeyId: number | null, req: SimulationRequest & Partial<SimulationJobInput>): Promise<Job> {
   await checkActiveJobs(db, orgId);
   const input: SimulationJobInput = { ...req, seed: req.seed ?? randomInt(0, 2 ** 32 - 1) };
   await checkSimulation(input);
