@@ -97,6 +97,14 @@ export const IconSimulations = (p: P) => (
   </Icon>
 );
 
+/** Billing: a receipt with a torn foot and a ruled total. */
+export const IconBilling = (p: P) => (
+  <Icon {...p}>
+    <path d="M5 2.8h10v14.4l-1.7-1.2-1.6 1.2-1.7-1.2-1.7 1.2-1.6-1.2L5 17.2V2.8Z" />
+    <path d="M7.5 6.5h5M7.5 9.5h5M10.5 12.5h2" />
+  </Icon>
+);
+
 export const IconCopy = (p: P) => (
   <Icon {...p}>
     <rect x="7" y="7" width="9.5" height="9.5" rx="1.5" />

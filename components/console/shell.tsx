@@ -8,7 +8,7 @@ import { Mark } from "@/components/mark";
 import { mayOpen, useMe, type Section } from "@/lib/console-client/hooks";
 import type { Role } from "@/lib/console-client/types";
 import { RoleBadge } from "./badges";
-import { IconBench, IconClaims, IconExit, IconKey, IconLedger, IconMenu, IconMeter, IconPeople, IconSimulations, IconSummary } from "./icons";
+import { IconBench, IconBilling, IconClaims, IconExit, IconKey, IconLedger, IconMenu, IconMeter, IconPeople, IconSimulations, IconSummary } from "./icons";
 import { selectBase } from "./ui";
 import { forgetBenchCredentials } from "@/lib/console-client/try-key";
 
@@ -29,6 +29,7 @@ export const NAV: NavItem[] = [
   { section: "simulations", segment: "simulations", label: "Simulations", hint: "error-rate curves, run as jobs", Icon: IconSimulations },
   { section: "keys", segment: "keys", label: "Keys", hint: "create, rotate, revoke", Icon: IconKey },
   { section: "usage", segment: "usage", label: "Meter", hint: "units by day, endpoint, key", Icon: IconMeter },
+  { section: "billing", segment: "billing", label: "Billing", hint: "plan, invoices, payment", Icon: IconBilling },
   { section: "members", segment: "members", label: "People", hint: "members, roles, invitations", Icon: IconPeople },
   { section: "audit", segment: "audit", label: "Ledger", hint: "who changed what", Icon: IconLedger },
 ];

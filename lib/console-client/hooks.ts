@@ -27,6 +27,7 @@ export const SECTION_ROLES = {
   try: ["owner", "developer"],
   claims: ["owner", "developer", "billing"],
   simulations: ["owner", "developer", "billing"],
+  billing: ["owner", "billing"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Section = keyof typeof SECTION_ROLES;
