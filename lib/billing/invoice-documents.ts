@@ -68,6 +68,8 @@ export function invoicePdf(inv: InvoiceDetail): Promise<Buffer> {
   const issued = new Date(inv.createdAt);
   const title = `Paritas invoice ${inv.number ?? inv.id}`;
   const doc = new PDFDocument({
+    // Starting on an embedded font keeps pdfkit from loading its Helvetica metrics from disk.
+    font: FONTS.regular,
     size: "A4",
     margin: 56,
     info: { Title: title, Author: "Paritas", Creator: "Paritas", Producer: "Paritas", CreationDate: issued, ModDate: issued },
