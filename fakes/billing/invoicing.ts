@@ -151,7 +151,7 @@ export function payInvoice(env: Env, invoice: Invoice): ApiError | undefined {
   return undefined;
 }
 
-/** Closes the current period of one subscription (ending at `end`), invoices it and starts the next calendar month, or ends the subscription if so asked. */
+/** Closes the current period of one subscription (ending at `end`), invoices it and starts the next calendar month (an update event), or ends the subscription if so asked. */
 export function closePeriod(env: Env, sub: Subscription, end: number): Invoice {
   const invoice = invoicePeriod(env, sub, sub.current_period_start, end);
   sub.current_period_start = end;
@@ -161,6 +161,8 @@ export function closePeriod(env: Env, sub: Subscription, end: number): Invoice {
     sub.canceled_at = end;
     sub.ended_at = end;
     env.emit("customer.subscription.deleted", sub);
+  } else {
+    env.emit("customer.subscription.updated", sub);
   }
   return invoice;
 }

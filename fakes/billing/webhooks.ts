@@ -82,8 +82,7 @@ export class Deliverer {
       if (this.stopped) return;
       const d = this.store.state.deliveries.find((x) => !x.done && x.next_at_ms <= Date.now());
       if (!d) return;
-      const event = this.store.state.events[d.event];
-      const body = JSON.stringify(event);
+      const body = JSON.stringify(this.store.state.events[d.event]);
       d.attempts += 1;
       let status: number | null = null;
       let error: string | null = null;

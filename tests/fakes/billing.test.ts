@@ -308,6 +308,27 @@ describe("billing stand-in: webhooks", () => {
   });
 });
 
+describe("billing stand-in: webhook retries", () => {
+  it("stops after 8 failed attempts", async () => {
+    const receiver = await startReceiver(Array(20).fill(500));
+    const { billing, stripe } = await bootBilling({ stateFile: stateFile(), secretKey, webhookUrl: receiver.url, webhookSecret: "whsec-x", retryBaseMs: 1 });
+    try {
+      const { base } = await catalogue(stripe, "r");
+      const customer = await stripe.customers.create({ name: "Unreachable" });
+      await stripe.subscriptions.create({ customer: customer.id, items: [{ price: base.id }] });
+      await until(() => receiver.received.length >= 8);
+      // Backoff 2, 4, …, 128 ms between the attempts: well past it, no ninth attempt has come.
+      await new Promise((r) => setTimeout(r, 400));
+      expect(receiver.received).toHaveLength(8);
+      const log = (await (await fetch(`${billing.url}/_stand-in/deliveries`, { headers: { authorization: `Bearer ${secretKey}` } })).json()) as { pending: unknown[] };
+      expect(log.pending).toEqual([]);
+    } finally {
+      await billing.close();
+      await receiver.close();
+    }
+  });
+});
+
 describe("billing stand-in: invoicing", () => {
   const units = [20000, 20000, 5123]; // 45,123 compute units in last month
 
@@ -412,6 +433,38 @@ describe("billing stand-in: invoicing", () => {
     }
   });
 
+  it("closes an ended month on its own once the close delay has passed", async () => {
+    const { billing, stripe } = await bootBilling({ stateFile: stateFile(), secretKey, closeDelayMs: 0 });
+    try {
+      const { sub } = await backdated(stripe, "t", cards.ok);
+      const deadline = Date.now() + 5000;
+      let invoices: Stripe.Invoice[] = [];
+      while (invoices.length === 0 && Date.now() < deadline) {
+        await new Promise((r) => setTimeout(r, 100));
+        invoices = (await stripe.invoices.list({ subscription: sub.id })).data;
+      }
+      expect(invoices.map((i) => [i.period_start, i.period_end, i.total, i.status])).toEqual([[lastMonth(), thisMonth(), 14146, "paid"]]);
+    } finally {
+      await billing.close();
+    }
+  });
+
+  it("ends a subscription set to cancel at period end when its period closes", async () => {
+    const { billing, stripe } = await bootBilling({ stateFile: stateFile(), secretKey });
+    try {
+      const { sub, customer } = await backdated(stripe, "e", cards.ok);
+      expect(await stripe.subscriptions.update(sub.id, { cancel_at_period_end: true, metadata: { note: "leaving" } })).toMatchObject({ cancel_at_period_end: true, metadata: { org_id: "7", note: "leaving" } });
+      await closePeriod(billing.url, sub.id);
+      expect(await stripe.subscriptions.retrieve(sub.id)).toMatchObject({ status: "canceled", ended_at: thisMonth() });
+      expect((await stripe.subscriptions.list({ customer: customer.id })).data).toEqual([]);
+      expect((await stripe.subscriptions.list({ customer: customer.id, status: "all" })).data.map((x) => x.id)).toEqual([sub.id]);
+      const deleted = await stripe.events.list({ type: "customer.subscription.deleted" });
+      expect(deleted.data.map((e) => (e.data.object as Stripe.Subscription).id)).toEqual([sub.id]);
+    } finally {
+      await billing.close();
+    }
+  });
+
   it("refuses the always-declined card when it is attached", async () => {
     const { billing, stripe } = await bootBilling({ stateFile: stateFile(), secretKey });
     try {
@@ -438,6 +491,7 @@ describe("billing stand-in: persistence", () => {
       const { customer } = await customerWithCard(stripe, cards.ok);
       const sub = await stripe.subscriptions.create({ customer: customer.id, items: [{ price: cat.base.id }, { price: cat.usage.id }], backdate_start_date: lastMonth() });
       await stripe.billing.meterEvents.create({ event_name: "compute_units_p", payload: { stripe_customer_id: customer.id, value: "41000" }, identifier: "p-1", timestamp: lastMonth() + 60 });
+      await stripe.customers.create({ name: "Keyed" }, { idempotencyKey: "persisted-key" });
       const res = await fetch(`${first.billing.url}/_stand-in/close-due`, { method: "POST", headers: { authorization: `Bearer ${secretKey}` } });
       const made = (await res.json()) as { data: Inv[] };
       expect(made.data.map((i) => [i.subscription, i.total])).toEqual([[sub.id, 3900 + 1000 * 2]]);
@@ -454,6 +508,7 @@ describe("billing stand-in: persistence", () => {
       await expect(
         stripe.billing.meterEvents.create({ event_name: "compute_units_p", payload: { stripe_customer_id: customer.id, value: "5" }, identifier: "p-1" }),
       ).rejects.toMatchObject({ code: "meter_event_duplicate_identifier" });
+      await expect(stripe.customers.create({ name: "Not keyed" }, { idempotencyKey: "persisted-key" })).rejects.toMatchObject({ code: "idempotency_key_in_use" });
     } finally {
       await billing.close();
     }
