@@ -97,6 +97,8 @@ export interface JobTable {
   result: string | null;
   /** Compute units charged so far (for the chunks run). */
   units: ColumnType<number, number | undefined, number>;
+  /** Compute units reserved from the org's quota when it was queued, settled when it ends. */
+  reserved_units: ColumnType<number, number | undefined, number>;
   /** How many times a runner has claimed it (a crash and resume adds one). */
   attempts: ColumnType<number, number | undefined, number>;
   lease_holder: string | null;
@@ -151,6 +153,50 @@ export interface UsageEventTable {
   created_at: Timestamp;
   /** Set once the event has been sent to the billing provider (outbox). */
   reported_at: Timestamp | null;
+  /** The mode of the key it was made with: only live usage is billed and reported to the provider. */
+  mode: ColumnType<KeyMode, KeyMode | undefined, KeyMode>;
+}
+
+/** Compute units used (and reserved by running work) per org, key mode and calendar month; kept equal to the ledger plus reservations. */
+export interface QuotaCounterTable {
+  org_id: number;
+  mode: KeyMode;
+  /** The month, "YYYY-MM". */
+  period: string;
+  used: number;
+}
+
+/** Allowance e-mails sent: one per org, month and threshold (percent). */
+export interface QuotaNoticeTable {
+  org_id: number;
+  period: string;
+  threshold: number;
+  sent_at: Timestamp;
+}
+
+/** An org's customer at the billing provider, its subscription and payment state as the provider's events last said. */
+export interface BillingAccountTable {
+  org_id: number;
+  customer_id: string;
+  subscription_id: string | null;
+  subscription_status: string | null;
+  card_brand: string | null;
+  card_last4: string | null;
+  card_exp_month: number | null;
+  card_exp_year: number | null;
+  payment_failed_at: Timestamp | null;
+  /** While a payment has failed: when the org moves to the free plan unless it pays. */
+  grace_until: Timestamp | null;
+  updated_at: Timestamp;
+}
+
+/** Every provider event processed, so a repeated delivery is acknowledged and ignored. */
+export interface BillingEventTable {
+  event_id: string;
+  type: string;
+  received_at: Timestamp;
+  /** What processing did, in words (for the operator). */
+  outcome: string;
 }
 
 export interface IdempotencyRecordTable {
@@ -191,6 +237,10 @@ export interface Database {
   claims: ClaimTable;
   job_chunks: JobChunkTable;
   usage_events: UsageEventTable;
+  quota_counters: QuotaCounterTable;
+  quota_notices: QuotaNoticeTable;
+  billing_accounts: BillingAccountTable;
+  billing_events: BillingEventTable;
   idempotency_records: IdempotencyRecordTable;
   audit_log: AuditLogTable;
   verification_tokens: VerificationTokenTable;
@@ -212,6 +262,7 @@ export type AuditEntry = Selectable<AuditLogTable>;
 export type NewAuditEntry = Insertable<AuditLogTable>;
 export type Invitation = Selectable<InvitationTable>;
 
+export type BillingAccount = Selectable<BillingAccountTable>;
 export type Job = Selectable<JobTable>;
 export type NewJob = Insertable<JobTable>;
 export type Claim = Selectable<ClaimTable>;

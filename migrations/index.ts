@@ -5,6 +5,7 @@ import * as m0003 from "./0003_idempotency_lease";
 import * as m0004 from "./0004_bench_credentials";
 import * as m0005 from "./0005_jobs";
 import * as m0006 from "./0006_claims";
+import * as m0007 from "./0007_billing";
 
 /** Static list: Kysely's file-system provider cannot find migrations inside a Next.js build. */
 export const migrations: Record<string, Migration> = {
@@ -14,4 +15,5 @@ export const migrations: Record<string, Migration> = {
   "0004_bench_credentials": m0004,
   "0005_jobs": m0005,
   "0006_claims": m0006,
+  "0007_billing": m0007,
 };

@@ -1,5 +1,6 @@
 import { sql } from "kysely";
-import type { Db } from "@/db";
+import { inTransaction, type Db } from "@/db";
+import { adjustUnits, monthKey } from "./quota";
 import type { Job, NewJob } from "@/db/schema";
 
 export const insertJob = (db: Db, job: NewJob) => db.insertInto("jobs").values(job).execute();
@@ -82,7 +83,21 @@ export const releaseJob = (db: Db, id: string, holder: string, now: string) =>
  * Returns the job as it stands after the call, undefined if the org has no such job.
  */
 export async function requestCancel(db: Db, orgId: number, id: string, now: string): Promise<Job | undefined> {
-  await db.updateTable("jobs").set({ status: "cancelled", reason: "Cancelled before it started.", finished_at: now, updated_at: now }).where("org_id", "=", orgId).where("id", "=", id).where("status", "=", "queued").execute();
-  await db.updateTable("jobs").set({ cancel_requested_at: now, updated_at: now }).where("org_id", "=", orgId).where("id", "=", id).where("status", "=", "running").where("cancel_requested_at", "is", null).execute();
+  await inTransaction(db, async (tx) => {
+    // A job cancelled before it started ran nothing: the units it held from the allowance go back at once.
+    const dropped = await tx
+      .updateTable("jobs")
+      .set({ status: "cancelled", reason: "Cancelled before it started.", finished_at: now, updated_at: now })
+      .where("org_id", "=", orgId)
+      .where("id", "=", id)
+      .where("status", "=", "queued")
+      .returning(["reserved_units", "created_at", "api_key_id"])
+      .executeTakeFirst();
+    if (dropped && dropped.reserved_units > 0) {
+      const key = dropped.api_key_id === null ? undefined : await tx.selectFrom("api_keys").select("mode").where("id", "=", dropped.api_key_id).executeTakeFirst();
+      await adjustUnits(tx, { orgId, mode: key?.mode ?? "live", month: monthKey(dropped.created_at), delta: -dropped.reserved_units });
+    }
+    await tx.updateTable("jobs").set({ cancel_requested_at: now, updated_at: now }).where("org_id", "=", orgId).where("id", "=", id).where("status", "=", "running").where("cancel_requested_at", "is", null).execute();
+  });
   return findJob(db, orgId, id);
 }

@@ -35,6 +35,10 @@ export const findMember = (db: Db, orgId: number, userId: number) => members(db,
 export const listOwnerEmails = async (db: Db, orgId: number) =>
   (await members(db, orgId).where("memberships.role", "=", "owner").execute()).map((m) => m.email);
 
+/** Who hears about money: the owners and billing admins. */
+export const listBillingEmails = async (db: Db, orgId: number) =>
+  (await members(db, orgId).where("memberships.role", "in", ["owner", "billing"]).execute()).map((m) => m.email);
+
 export async function countOwners(db: Db, orgId: number): Promise<number> {
   const row = await db
     .selectFrom("memberships")

@@ -1,3 +1,4 @@
+import { FREE_PLAN } from "@/lib/billing/plans";
 import type { Db } from "@/db";
 import { nowIso } from "@/db";
 
@@ -10,7 +11,7 @@ export const findOrgById = (db: Db, id: number) =>
 export async function insertOrg(db: Db, org: { slug: string; name: string; plan?: string }) {
   return db
     .insertInto("orgs")
-    .values({ slug: org.slug, name: org.name, plan: org.plan ?? "starter", created_at: nowIso() })
+    .values({ slug: org.slug, name: org.name, plan: org.plan ?? FREE_PLAN, created_at: nowIso() })
     .returningAll()
     .executeTakeFirstOrThrow();
 }

@@ -131,7 +131,7 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
   return db.transaction().execute(async (tx) => {
     const org = await tx
       .insertInto("orgs")
-      .values({ ...DEMO_ORG, plan: "team", created_at: ago(HISTORY.orgCreated) })
+      .values({ ...DEMO_ORG, plan: "beacon", created_at: ago(HISTORY.orgCreated) })
       .returningAll()
       .executeTakeFirstOrThrow();
     const audit = (days: number, actorId: number, a: Omit<AuditInput, "orgId" | "actor" | "at">) => insertAudit(tx, { ...a, orgId: org.id, actor: `user:${actorId}`, at: ago(days) });

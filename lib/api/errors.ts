@@ -8,7 +8,7 @@ export const problemTypes = {
   "bad-request": { status: 400, title: "The request could not be read", help: "The body is not valid JSON, or a header is malformed. Fix the syntax and send it again." },
   "unauthenticated": { status: 401, title: "A valid API key is required", help: "Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired." },
   "signed-out": { status: 401, title: "Sign-in required", help: "The console needs a valid session. Sign in again; sessions end after a while." },
-  "quota-exhausted": { status: 402, title: "The monthly quota is used up", help: "The organisation's plan has no compute units left this month." },
+  "quota-exhausted": { status: 402, title: "The monthly allowance is used up", help: "The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console." },
   "forbidden": { status: 403, title: "The key may not do this", help: "The key lacks the scope this operation needs. Create a key with that scope." },
   "role-refused": { status: 403, title: "Your role does not allow this", help: "Roles are owner, developer and billing. An owner of the organisation can change your role." },
   "cross-origin": { status: 403, title: "Cross-origin request refused", help: "Console changes are accepted only from the console's own origin (the `Origin` header, or `Sec-Fetch-Site: same-origin`)." },
@@ -51,11 +51,21 @@ export interface LimitInfo {
 }
 
 /** The one error type of the API layer: raised anywhere, rendered once by `problemResponse`. */
+/** Where a call stands against its monthly allowance, in a quota-exhausted problem. */
+export interface QuotaInfo {
+  plan: string;
+  mode: "live" | "test";
+  allowance: number;
+  used: number;
+  requested: number;
+  resetsAt: string;
+}
+
 export class ApiError extends Error {
   constructor(
     readonly code: ProblemCode,
     readonly detail: string,
-    readonly extra: { errors?: FieldError[]; omittedErrors?: number; headers?: Record<string, string>; limit?: LimitInfo } = {},
+    readonly extra: { errors?: FieldError[]; omittedErrors?: number; headers?: Record<string, string>; limit?: LimitInfo; quota?: QuotaInfo } = {},
   ) {
     super(detail);
     this.name = "ApiError";
@@ -121,6 +131,17 @@ export const problemSchema = z
       .object({ quantity: z.string(), requested: z.number().optional(), allowed: z.number(), unit: z.string() })
       .optional()
       .meta({ description: "Work, deadline and memory limits: the quantity, what the request needed (when known) and what one call allows." }),
+    quota: z
+      .object({
+        plan: z.string().meta({ description: "The organisation's plan." }),
+        mode: z.enum(["live", "test"]).meta({ description: "Which allowance: live and test keys have their own." }),
+        allowance: z.number().int().meta({ description: "Compute units a month." }),
+        used: z.number().int().meta({ description: "Used so far this month, including units held by running jobs." }),
+        requested: z.number().int().meta({ description: "What the refused call needed." }),
+        resetsAt: z.string().meta({ description: "When the allowance renews: the start of the next calendar month, UTC." }),
+      })
+      .optional()
+      .meta({ description: "In a quota-exhausted problem: where the key's allowance stands." }),
   })
   .meta({ id: "Problem", description: "RFC 9457 problem details." });
 
@@ -139,6 +160,7 @@ export function problemResponse(err: unknown, requestId: string): Response {
     ...(e.extra.errors ? { errors: e.extra.errors } : {}),
     ...(e.extra.omittedErrors ? { omittedErrors: e.extra.omittedErrors } : {}),
     ...(e.extra.limit ? { limit: e.extra.limit } : {}),
+    ...(e.extra.quota ? { quota: e.extra.quota } : {}),
   };
   return new Response(JSON.stringify(body), {
     status: e.status,

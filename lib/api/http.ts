@@ -7,6 +7,7 @@ import { Reply, StreamReply, type Endpoint, type Method } from "./endpoint";
 import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
+import { quotaHeaders, reserveQuota, type Reservation } from "./quota";
 import { replyJson } from "./pool-reply";
 import { consumeRate } from "./rate-limit";
 import { requestIdFor } from "./request-id";
@@ -62,6 +63,12 @@ async function runCompute(e: Extract<Endpoint, { kind: "compute" }>, input: unkn
   return replyJson(await runTask("request", { kind: "endpoint", id: e.id, input }, poolLimits.deadlineMs));
 }
 
+/** How a call pays: `reserve` its units from the allowance before the work, `charge` what it cost once it succeeded. */
+interface Charging {
+  reserve(units: number): Promise<void>;
+  charge(units: number): void;
+}
+
 const routeCache = new WeakMap<Endpoint, (req: Request) => Promise<Response>>();
 
 /** The Next.js route handler of an endpoint: key auth, rate limit, scope, idempotency, validation, work, metering, problems. */
@@ -77,6 +84,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
     let principal: KeyPrincipal | undefined;
     let headers: Record<string, string> = {};
     let units = 0;
+    let reservation: Reservation | undefined;
     let response: Response;
     let db: Db | undefined;
     try {
@@ -85,14 +93,21 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       // Every call of a known key counts against its rate, refused ones too: a key without the scope must not be a free loop of metered writes.
       headers = await consumeRate(principal.keyId);
       requireScope(principal, spec.scope);
-      response = await run(req, db, principal, requestId, headers, (u) => (units = u));
+      const payer = { orgId: principal.orgId, plan: principal.plan, mode: principal.mode };
+      const charging: Charging = {
+        // Before any work: the call's units come out of the month's allowance, or it is refused (402) here.
+        reserve: async (u) => void (reservation = await reserveQuota(db!, payer, u, at0)),
+        charge: (u) => void (units = u),
+      };
+      response = await run(req, db, principal, requestId, headers, charging);
     } catch (err) {
       response = problemResponse(asProblem(err), requestId);
       for (const [k, v] of Object.entries(headers)) if (!response.headers.has(k)) response.headers.set(k, v);
     }
     if (db && principal) {
       try {
-        await meter(db, { principal, endpoint: spec.id, method: spec.method, status: response.status, units, durationMs: performance.now() - started, requestId, at: at0 });
+        const quota = await meter(db, { principal, endpoint: spec.id, method: spec.method, status: response.status, units, durationMs: performance.now() - started, requestId, at: at0 }, reservation);
+        for (const [k, v] of Object.entries(quotaHeaders(quota))) response.headers.set(k, v);
       } catch (e) {
         console.error(`[${requestId}] metering failed`, e);
       }
@@ -100,7 +115,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
     return response;
   };
 
-  async function run(req: Request, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+  async function run(req: Request, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: Charging): Promise<Response> {
     const bodyText = spec.method === "POST" ? await readBodyText(req) : "";
     const raw = readInput(req, bodyText, spec.method);
     const idemKey = spec.method === "POST" ? req.headers.get("idempotency-key") : null;
@@ -137,7 +152,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
     return parsed.data as Record<string, string>;
   }
 
-  async function compute(req: Request, raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, charge: (u: number) => void): Promise<Response> {
+  async function compute(req: Request, raw: unknown, db: Db, principal: KeyPrincipal, requestId: string, rateHeaders: Record<string, string>, { reserve, charge }: Charging): Promise<Response> {
     const params = paramsOf(req);
     const parsed = spec.input.safeParse(raw);
     if (!parsed.success) throw validationProblem(fieldErrorsFromZod(parsed.error));
@@ -150,6 +165,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       const work = spec.work(input);
       checkWork(work, "Split the request into smaller ones, or choose a smaller code.");
       units = unitsFor(work);
+      await reserve(units);
       try {
         json = await runCompute(spec, input, work);
       } catch (e) {
@@ -158,6 +174,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
         throw e;
       }
     } else {
+      await reserve(spec.cost);
       const out = await spec.handler(input, { db, principal, requestId, params });
       if (out instanceof StreamReply) {
         charge(spec.cost);

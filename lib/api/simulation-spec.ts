@@ -20,7 +20,6 @@ export const MAX_BITS_PER_POINT = 2 ** 40;
 /** Wall-time budget of one point, seconds. */
 export const MAX_SECONDS_PER_POINT = 3600;
 /** Simulations and simulated claims of one organisation queued or running at once. */
-export const MAX_ACTIVE_JOBS = 4;
 /** Simulated information bits per compute unit. */
 export const BITS_PER_UNIT = 2 ** 26;
 
@@ -78,6 +77,16 @@ export const simulationRequest = z
   .meta({ id: "SimulationRequest" });
 
 export type SimulationRequest = z.output<typeof simulationRequest>;
+
+/**
+ * The most information bits a request can simulate, summed over its points: each point runs whole frames of k bits,
+ * at most ⌈maxBits / k⌉ of them and at most maxFrames. Plans bound this per job, and a job reserves its units from it.
+ */
+export function jobBitBound(r: SimulationRequest): number {
+  const k = r.code ? codeWork(r.code).k : (r.frameBits ?? 1);
+  const frames = Math.min(r.stop.maxBits === undefined ? Infinity : Math.ceil(r.stop.maxBits / k), r.stop.maxFrames ?? Infinity);
+  return r.points.length * frames * k;
+}
 
 /** The engine's rules for a request (seconds → milliseconds). */
 export const engineRules = (r: SimulationRequest): StopRules => ({

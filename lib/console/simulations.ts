@@ -2,7 +2,8 @@ import { z } from "zod";
 import type { Db } from "@/db";
 import { insertAudit } from "@/db/queries/audit";
 import { listJobs, requestCancel } from "@/db/queries/jobs";
-import { insertUsageEvent } from "@/db/queries/usage";
+import { recordUsage } from "@/lib/api/metering";
+import { reserveQuota, settleQuota } from "@/lib/api/quota";
 import type { Org } from "@/db/schema";
 import { createSimulation, enqueueSimulation, presentSimulation, SIMULATION_KIND, simulationJob } from "@/lib/api/endpoints/simulations";
 import { resolveCode } from "@/lib/api/codes";
@@ -36,22 +37,22 @@ export async function orgSimulation(db: Db, org: Pick<Org, "id">, id: string) {
   return { ...sim, code: built ? { name: built.name, n: built.n, k: built.k } : null };
 }
 
-/** Start a simulation: the API's checks and queue, its starting unit metered (no key), and an audit row naming who started it. */
-export async function startOrgSimulation(db: Db, org: Pick<Org, "id">, caller: Caller, req: SimulationRequest, requestId: string) {
-  const row = await enqueueSimulation(db, org.id, null, req);
-  const now = new Date().toISOString();
-  await insertUsageEvent(db, {
-    org_id: org.id,
-    api_key_id: null,
-    endpoint: createSimulation.id,
-    method: "POST",
-    status: 202,
-    units: createSimulation.cost,
-    duration_ms: 0,
-    request_id: requestId,
-    created_at: now,
-    reported_at: null,
-  });
+/**
+ * Start a simulation: the API's checks, quota and queue, its starting unit metered (no key; it draws on the live
+ * allowance, as the console's work is the organisation's own), and an audit row naming who started it.
+ */
+export async function startOrgSimulation(db: Db, org: Pick<Org, "id" | "plan">, caller: Caller, req: SimulationRequest, requestId: string) {
+  const payer = { orgId: org.id, plan: org.plan, mode: "live" as const };
+  const at = new Date();
+  const start = await reserveQuota(db, payer, createSimulation.cost, at);
+  let row;
+  try {
+    row = await enqueueSimulation(db, { ...payer, apiKeyId: null }, req);
+  } catch (e) {
+    await settleQuota(db, start, 0, at);
+    throw e;
+  }
+  await recordUsage(db, { payer, keyId: null, endpoint: createSimulation.id, method: "POST", status: 202, units: createSimulation.cost, durationMs: 0, requestId, at }, start);
   await insertAudit(db, { orgId: org.id, actor: actorOf(caller), action: "simulation.started", targetType: "job", targetId: row.id, details: { points: JSON.parse(row.input).points?.length ?? 0 } });
   return presentSimulation(row);
 }

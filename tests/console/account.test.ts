@@ -18,8 +18,8 @@ describe("GET /api/console/me", () => {
     expect(res.status, res.text).toBe(200);
     expect(res.body.user).toEqual({ id: fx.developer.id, email: fx.developer.email, name: "developer" });
     expect(res.body.orgs).toEqual([
-      { slug: fx.other.slug, name: "Another org", plan: "starter", role: "billing" },
-      { slug: fx.org.slug, name: "Console org", plan: "starter", role: "developer" },
+      { slug: fx.other.slug, name: "Another org", plan: "lighthouse", role: "billing" },
+      { slug: fx.org.slug, name: "Console org", plan: "lighthouse", role: "developer" },
     ]);
   });
 });

@@ -115,8 +115,8 @@ describe("accepting", () => {
     const me = await consoleCall("GET", "/api/console/me", { cookie: newcomer.cookie });
     expect(me.body.orgs).toEqual(
       expect.arrayContaining([
-        { slug: fx.org.slug, name: fx.org.name, plan: "starter", role: "billing" },
-        { slug: fx.other.slug, name: fx.other.name, plan: "starter", role: "developer" },
+        { slug: fx.org.slug, name: fx.org.name, plan: "lighthouse", role: "billing" },
+        { slug: fx.other.slug, name: fx.other.name, plan: "lighthouse", role: "developer" },
       ]),
     );
     expect(me.body.orgs).toHaveLength(2);

@@ -81,7 +81,8 @@ const key = (db: Db, org: Org, by: Person | null, name: string) =>
  */
 export async function makeConsoleOrg() {
   const db = await getDb();
-  const org = await insertOrg(db, { slug: `org-${unique()}`, name: "Console org" });
+  // The largest plan, so the console suites never meet an allowance or a job budget (the billing suites choose theirs).
+  const org = await insertOrg(db, { slug: `org-${unique()}`, name: "Console org", plan: "lighthouse" });
   const owner = await addMember(db, org, "owner", "owner");
   const coOwner = await addMember(db, org, "co-owner", "owner");
   const developer = await addMember(db, org, "developer", "developer");
@@ -95,7 +96,7 @@ export async function makeConsoleOrg() {
   const invitation = await invite(db, org, `invitee-${unique()}@console.example`, "developer");
   const simulations = { queued: await simulationJobRow(db, org, "queued"), done: await simulationJobRow(db, org, "done") };
 
-  const other = await insertOrg(db, { slug: `other-${unique()}`, name: "Another org" });
+  const other = await insertOrg(db, { slug: `other-${unique()}`, name: "Another org", plan: "lighthouse" });
   const otherOwner = await addMember(db, other, "other-owner", "owner");
   const otherKey = await key(db, other, otherOwner, "other key");
   const otherInvitation = await invite(db, other, `other-invitee-${unique()}@console.example`, "developer");

@@ -144,15 +144,16 @@ describe("idempotent submission", () => {
 });
 
 describe("limits and bad requests", () => {
-  it(`refuses a fifth job at once while four are queued or running (429 job-limit with Retry-After)`, async () => {
-    const { auth } = await makeOrgWithKey();
+  it(`refuses a fifth job at once while four are queued or running on Beacon (429 job-limit with Retry-After)`, async () => {
+    // A live key on a paid plan: its reservations never stop at the allowance, so only the job count can refuse.
+    const { auth } = await makeOrgWithKey({ plan: "beacon", mode: "live" });
     const slow = { channel: { type: "bsc" }, points: [0.001], stop: { maxBits: 2 ** 40 }, gapSkipping: false };
     const made = [];
     for (let i = 0; i < 4; i++) made.push((await postJson("/api/v1/simulations", slow, auth)).headers.location!);
     const res = await postJson("/api/v1/simulations", slow, auth);
     const p = expectProblem(res, 429, "job-limit");
     expect(res.headers["retry-after"]).toBe("10");
-    expect(p.detail).toMatch(/at most 4/);
+    expect(p.detail).toMatch(/Beacon plan allows 4 at once/);
     for (const l of made) await api().delete(l).set("authorization", auth);
   });
 

@@ -204,7 +204,7 @@ export const createClaim = defineDataEndpoint({
     if (req.evidence.mode === "simulated") {
       const evidence = req.evidence;
       const job = at([], () => claimSimulation(target, req.confidence, evidence, evidence.seed ?? randomInt(0, 2 ** 32 - 1))) as SimulationJobInput;
-      const jobId = (await at(["evidence"], () => enqueueSimulation(db, principal.orgId, principal.keyId, job))).id;
+      const jobId = (await at(["evidence"], () => enqueueSimulation(db, { orgId: principal.orgId, plan: principal.plan, mode: principal.mode, apiKeyId: principal.keyId }, job))).id;
       const row: Claim = { id: newJobId("clm"), org_id: principal.orgId, api_key_id: principal.keyId, label: req.label, mode: "simulated", verdict: "pending", request: JSON.stringify({ ...req, evidence: { ...evidence, seed: job.seed } }), outcome: null, job_id: jobId, created_at: now, decided_at: null };
       await insertClaim(db, row);
       return new Reply(202, present(row), `/claims/${row.id}`);

@@ -15,7 +15,10 @@ import { ApiError } from "../errors";
 import { replyJson } from "../pool-reply";
 import { cursorParam, decodeCursor, limitParam, newestFirstCursor, newestFirstPage } from "../pagination";
 import { caution } from "../schemas";
-import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
+import { inTransaction, type Db } from "@/db";
+import { PLANS, planOf, PLAN_IDS } from "@/lib/billing/plans";
+import { reserveQuota, type Payer } from "../quota";
+import { BITS_PER_UNIT, jobBitBound, MAX_POINTS, MAX_SECONDS_PER_POINT, simulationRequest, type SimulationRequest } from "../simulation-spec";
 
 /**
  * Simulations: a sweep run as a job by the job runner (`npm run worker`), read while it runs, streamed as
@@ -24,16 +27,33 @@ import { BITS_PER_UNIT, MAX_ACTIVE_JOBS, MAX_POINTS, MAX_SECONDS_PER_POINT, simu
 
 export const SIMULATION_KIND = "simulation";
 
-/** Throw the job-limit problem when the organisation already has as many jobs queued or running as it may. */
-async function checkActiveJobs(db: Parameters<typeof countUnfinishedJobs>[0], orgId: number): Promise<void> {
-  const active = await countUnfinishedJobs(db, orgId);
-  if (active >= MAX_ACTIVE_JOBS) {
-    throw new ApiError("job-limit", `The organisation has ${active} simulations or simulated claims queued or running; at most ${MAX_ACTIVE_JOBS} at once. Wait for one to end or cancel one (DELETE /simulations/{id}).`, {
+/** Throw the job-limit problem when the organisation already has as many jobs queued or running as its plan allows. */
+async function checkActiveJobs(db: Db, payer: Payer): Promise<void> {
+  const plan = planOf(payer.plan);
+  const active = await countUnfinishedJobs(db, payer.orgId);
+  if (active >= plan.maxActiveJobs) {
+    throw new ApiError("job-limit", `The organisation has ${active} simulations or simulated claims queued or running; its ${plan.name} plan allows ${plan.maxActiveJobs} at once. Wait for one to end or cancel one (DELETE /simulations/{id}).`, {
       headers: { "retry-after": "10" },
-      limit: { quantity: "jobs queued or running", requested: active + 1, allowed: MAX_ACTIVE_JOBS, unit: "jobs" },
+      limit: { quantity: "jobs queued or running", requested: active + 1, allowed: plan.maxActiveJobs, unit: "jobs" },
     });
   }
 }
+
+const pow2 = (n: number) => `2^${Math.log2(n)}`;
+
+/** Throw the work-limit problem when the request could simulate more bits than the plan allows one job. */
+function checkBitBudget(payer: Payer, bits: number): void {
+  const plan = planOf(payer.plan);
+  if (bits <= plan.maxBitsPerJob) return;
+  const bigger = PLAN_IDS.map((id) => PLANS[id]).find((p) => p.maxBitsPerJob >= bits);
+  throw new ApiError(
+    "work-limit",
+    `The stopping rules allow up to ${bits.toExponential(3)} information bits over all points (maxBits or maxFrames × k per point); the ${plan.name} plan allows ${pow2(plan.maxBitsPerJob)} ≈ ${plan.maxBitsPerJob.toExponential(3)} per job. Lower stop.maxBits or stop.maxFrames, use fewer points${bigger ? `, or move to ${bigger.name} (${pow2(bigger.maxBitsPerJob)} bits per job)` : ""}.`,
+    { limit: { quantity: "information bits per job", requested: bits, allowed: plan.maxBitsPerJob, unit: "bits" } },
+  );
+}
+
+const budgetsInWords = PLAN_IDS.map((id) => `${PLANS[id].name} ${pow2(PLANS[id].maxBitsPerJob)} bits and ${PLANS[id].maxActiveJobs} job${PLANS[id].maxActiveJobs === 1 ? "" : "s"}`).join(", ");
 
 /** Build the request's simulator on the request lane of the pool (it can take thousands of decodes): its errors are the request's. */
 async function checkSimulation(r: SimulationJobInput): Promise<void> {
@@ -176,13 +196,20 @@ const illustration: View = {
  * errors are the request's), and queue it for the runner. The API and the console both start simulations here;
  * `apiKeyId` is null for one started from the console; a simulated claim's request carries its seed and decision rule.
  */
-export async function enqueueSimulation(db: Parameters<typeof findJob>[0], orgId: number, apiKeyId: number | null, req: SimulationRequest & Partial<SimulationJobInput>): Promise<Job> {
-  await checkActiveJobs(db, orgId);
+export async function enqueueSimulation(db: Db, payer: Payer & { apiKeyId: number | null }, req: SimulationRequest & Partial<SimulationJobInput>): Promise<Job> {
+  const bits = jobBitBound(req);
+  checkBitBudget(payer, bits);
+  await checkActiveJobs(db, payer);
   const input: SimulationJobInput = { ...req, seed: req.seed ?? randomInt(0, 2 ** 32 - 1) };
   await checkSimulation(input);
   const id = newJobId("sim");
-  await databaseQueue(db).enqueue({ id, orgId, apiKeyId, kind: SIMULATION_KIND, input });
-  return (await findJob(db, orgId, id))!;
+  // The most the job can cost is held from the allowance with the job, and settled with what it ran when it ends.
+  const reservedUnits = unitsForBits(bits);
+  await inTransaction(db, async (tx) => {
+    await reserveQuota(tx, payer, reservedUnits);
+    await databaseQueue(tx).enqueue({ id, orgId: payer.orgId, apiKeyId: payer.apiKeyId, kind: SIMULATION_KIND, input, reservedUnits });
+  });
+  return (await findJob(db, payer.orgId, id))!;
 }
 
 export const createSimulation = defineDataEndpoint({
@@ -195,12 +222,13 @@ export const createSimulation = defineDataEndpoint({
   description:
     `A sweep of up to ${MAX_POINTS} operating points of a code (or none) on a BSC, BEC or AWGN channel (BPSK or Gray QPSK, hard or soft decisions), each run in chunks until one of its stopping rules holds. ` +
     "It runs as a job: the answer is 202 with Location; read it with GET /simulations/{id}, follow it with GET /simulations/{id}/events, cancel it with DELETE. " +
-    `The same request and seed give the same counts. Limits: ${MAX_POINTS} points, 2^40 information bits and ${MAX_SECONDS_PER_POINT} s per point, ${MAX_ACTIVE_JOBS} jobs queued or running per organisation (429 job-limit). ` +
-    `Cost: 1 unit to start, and when the job ends 1 unit per started 2^26 (${BITS_PER_UNIT.toLocaleString("en")}) simulated information bits, charged for the chunks run (a cancelled job too).`,
+    `The same request and seed give the same counts. Limits: ${MAX_POINTS} points, 2^40 information bits and ${MAX_SECONDS_PER_POINT} s per point; per plan, the information bits one job may ask for (summed over points) and the jobs queued or running at once: ${budgetsInWords} (422 work-limit, 429 job-limit). ` +
+    `Cost: 1 unit to start, and when the job ends 1 unit per started 2^26 (${BITS_PER_UNIT.toLocaleString("en")}) simulated information bits, charged for the chunks run (a cancelled job too). ` +
+    "The units the job could cost at most are held from the monthly allowance while it runs (402 quota-exhausted when they do not fit), and what it did not use is given back when it ends.",
   input: simulationRequest,
   output: view,
   statuses: { 202: "Queued; Location is where to read it." },
-  problems: ["job-limit", "work-limit", "server-busy"],
+  problems: ["job-limit", "work-limit", "server-busy", "quota-exhausted"],
   examples: {
     hamming: { summary: "(7,4) Hamming on a BSC, three crossover probabilities, 100 bit errors or 10⁸ bits each", value: { code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.02, 0.01, 0.005], stop: { minBitErrors: 100, maxBits: 1e8 }, seed: 7 } },
     soft: { summary: "Golay (24,12) soft decisions on AWGN, 2 to 4 dB", value: { code: { family: "golay", extended: true }, channel: { type: "awgn", modulation: "bpsk", decisions: "soft" }, points: [2, 3, 4], stop: { minFrameErrors: 50, maxFrames: 200000 } } },
@@ -208,7 +236,7 @@ export const createSimulation = defineDataEndpoint({
   illustration: { summary: ILLUSTRATIVE, value: illustration },
   cost: 1,
   handler: async (req, { db, principal }) => {
-    const row = await enqueueSimulation(db, principal.orgId, principal.keyId, req);
+    const row = await enqueueSimulation(db, { orgId: principal.orgId, plan: principal.plan, mode: principal.mode, apiKeyId: principal.keyId }, req);
     return new Reply(202, presentSimulation(row), `/simulations/${row.id}`);
   },
 });
