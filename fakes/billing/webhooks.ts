@@ -101,7 +101,8 @@ export class Deliverer {
       const ok = status !== null && status >= 200 && status < 300;
       d.done = ok || d.attempts >= maxAttempts;
       d.next_at_ms = Date.now() + Math.min(this.retryBaseMs * 2 ** d.attempts, maxBackoffMs);
-      this.store.state.deliveryLog.push({ event: d.event, attempt: d.attempts, status, error, at: unixNow() });
+      // The log is for looking at recent traffic; the last 1000 attempts are plenty.
+      this.store.state.deliveryLog = [...this.store.state.deliveryLog, { event: d.event, attempt: d.attempts, status, error, at: unixNow() }].slice(-1000);
       // Finished deliveries stay only in the log.
       this.store.state.deliveries = this.store.state.deliveries.filter((x) => !x.done);
       this.store.save();
