@@ -9,7 +9,7 @@ import { percentUsed } from "./words";
 export function UsageMeter({ label, used, allowance, projected, words }: { label: string; used: number; allowance: number; projected?: number; words: string }) {
   const scale = Math.max(allowance, used, projected ?? 0, 1);
   const pct = (n: number) => `${Math.min(100, (n / scale) * 100)}%`;
-  const over = used > allowance;
+  const full = used >= allowance;
   const share = percentUsed(used, allowance);
   return (
     <div className="flex flex-col gap-1.5">
@@ -29,7 +29,7 @@ export function UsageMeter({ label, used, allowance, projected, words }: { label
             style={{ width: pct(projected) }}
           />
         ) : null}
-        <div aria-hidden="true" className={`absolute inset-y-0 left-0 ${over ? "bg-brass" : "bg-accent"}`} style={{ width: pct(used) }} />
+        <div aria-hidden="true" className={`absolute inset-y-0 left-0 ${full ? "bg-brass" : "bg-accent"}`} style={{ width: pct(used) }} />
         {scale > allowance ? <div aria-hidden="true" className="absolute inset-y-0 w-0.5 bg-ink" style={{ left: pct(allowance) }} /> : null}
       </div>
       <p className="flex flex-wrap justify-between gap-x-3 text-sm">
