@@ -44,6 +44,27 @@ function send(res: ServerResponse, status: number, payload: unknown): void {
  * state written to disk. Handlers are synchronous, so requests never interleave on the state.
  */
 export function handler(env: Env & { setApiVersion(v: string | undefined): void }, secretKey: string, afterChange: () => void) {
+  const serve = serveOne(env, secretKey, afterChange);
+  // A failure outside the handlers (a dropped connection, say) must not become an unhandled rejection that stops the process.
+  return (req: IncomingMessage, res: ServerResponse) => {
+    serve(req, res).catch((e: unknown) => {
+      console.error("billing stand-in:", e);
+      if (!res.headersSent) send(res, 500, { error: { type: "api_error", code: "internal", message: "The stand-in failed on this request." } });
+      else res.destroy();
+    });
+  };
+}
+
+/** `%zz` in a path segment is kept as written rather than failing the request. */
+function decodeSegment(v: string): string {
+  try {
+    return decodeURIComponent(v);
+  } catch {
+    return v;
+  }
+}
+
+function serveOne(env: Env & { setApiVersion(v: string | undefined): void }, secretKey: string, afterChange: () => void) {
   const store: Store = env.store;
   return async (req: IncomingMessage, res: ServerResponse) => {
     const method = req.method ?? "GET";
@@ -58,7 +79,7 @@ export function handler(env: Env & { setApiVersion(v: string | undefined): void 
     let params: Record<string, string> = {};
     const route = routes.find((r) => {
       const m = r.method === method ? r.regex.exec(url.pathname) : null;
-      if (m) params = Object.fromEntries(Object.entries(m.groups ?? {}).map(([k, v]) => [k, decodeURIComponent(v)]));
+      if (m) params = Object.fromEntries(Object.entries(m.groups ?? {}).map(([k, v]) => [k, decodeSegment(v)]));
       return m !== null;
     });
     if (!route) return send(res, 404, new ApiError(404, "invalid_request_error", "unrecognized_url", `The stand-in has no ${method} ${url.pathname}.`).body);
@@ -93,10 +114,7 @@ export function handler(env: Env & { setApiVersion(v: string | undefined): void 
       }
       payload = expand(store, JSON.parse(JSON.stringify(out)), strings(ctx.q, "expand"));
     } catch (e) {
-      if (!(e instanceof ApiError)) {
-        console.error("billing stand-in:", e);
-        return send(res, 500, { error: { type: "api_error", code: "internal", message: "The stand-in failed on this request." } });
-      }
+      if (!(e instanceof ApiError)) throw e;
       status = e.status;
       payload = e.body;
     } finally {

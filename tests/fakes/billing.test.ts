@@ -152,6 +152,8 @@ describe("billing stand-in: catalogue objects", () => {
       const res = await fetch(`${billing.url}/v1/nothing-here`, { headers: { authorization: `Bearer ${secretKey}` } });
       expect(res.status).toBe(404);
       expect(await res.json()).toMatchObject({ error: { type: "invalid_request_error" } });
+      const odd = await fetch(`${billing.url}/v1/customers/%zz`, { headers: { authorization: `Bearer ${secretKey}` } });
+      expect([odd.status, ((await odd.json()) as { error: { code: string } }).error.code]).toEqual([404, "resource_missing"]);
     } finally {
       await billing.close();
     }
