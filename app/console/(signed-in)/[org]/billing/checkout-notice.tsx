@@ -25,6 +25,14 @@ export function rememberCheckout(org: string, c: PendingCheckout) {
   }
 }
 
+function forget(org: string) {
+  try {
+    sessionStorage.removeItem(storageKey(org));
+  } catch {
+    // Nothing was stored.
+  }
+}
+
 function recalled(org: string): PendingCheckout | null {
   try {
     const raw = sessionStorage.getItem(storageKey(org));
@@ -57,7 +65,7 @@ function CheckoutDone({ org }: { org: string }) {
     return () => clearTimeout(t);
   }, []);
   useEffect(() => {
-    if (confirmed) sessionStorage.removeItem(storageKey(org));
+    if (confirmed) forget(org);
   }, [confirmed, org]);
 
   if (confirmed && plan) {
@@ -80,16 +88,19 @@ function CheckoutDone({ org }: { org: string }) {
   );
 }
 
+function CheckoutCancelled({ org }: { org: string }) {
+  useEffect(() => forget(org), [org]);
+  return (
+    <div role="status" className={`${note} border-rule border-l-ink-2 bg-surface`}>
+      <p className="font-medium">Nothing was charged; your plan is unchanged.</p>
+    </div>
+  );
+}
+
 /** The notice the billing page shows on its return from the provider (?checkout=done or ?checkout=cancelled). */
 export function CheckoutNotice({ org }: { org: string }) {
   const outcome = useSearchParams().get("checkout");
   if (outcome === "done") return <CheckoutDone org={org} />;
-  if (outcome === "cancelled") {
-    return (
-      <div role="status" className={`${note} border-rule border-l-ink-2 bg-surface`}>
-        <p className="font-medium">Nothing was charged; your plan is unchanged.</p>
-      </div>
-    );
-  }
+  if (outcome === "cancelled") return <CheckoutCancelled org={org} />;
   return null;
 }
