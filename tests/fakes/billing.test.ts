@@ -288,7 +288,8 @@ describe("billing stand-in: webhooks", () => {
       expect(receiver.received.map((r) => r.status)).toEqual([500, 500, 200]);
       const events = receiver.received.map((r) => stripe.webhooks.constructEvent(r.body, r.signature, webhookSecret));
       expect(new Set(events.map((e) => e.id)).size).toBe(1);
-      expect(events[2]).toMatchObject({ type: "customer.subscription.created", data: { object: { id: sub.id } } });
+      // The event speaks the API version the SDK asked for in its Stripe-Version header.
+      expect(events[2]).toMatchObject({ type: "customer.subscription.created", api_version: Stripe.API_VERSION, data: { object: { id: sub.id } } });
       expect(() => stripe.webhooks.constructEvent(receiver.received[2]!.body, receiver.received[2]!.signature, "whsec-wrong")).toThrow(Stripe.errors.StripeSignatureVerificationError);
 
       const redo = await fetch(`${billing.url}/_stand-in/events/${events[2]!.id}/redeliver`, { method: "POST", headers: { authorization: `Bearer ${secretKey}` } });
