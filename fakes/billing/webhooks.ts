@@ -44,6 +44,7 @@ export class Deliverer {
   private timer: NodeJS.Timeout | undefined;
   private running: Promise<void> | undefined;
   private stopped = false;
+  private readonly abort = new AbortController();
 
   constructor(
     private readonly store: Store,
@@ -61,9 +62,11 @@ export class Deliverer {
     });
   }
 
+  /** An attempt in flight is cut short and stays queued, uncounted, so the next start sends it again. */
   async stop(): Promise<void> {
     this.stopped = true;
     clearTimeout(this.timer);
+    this.abort.abort();
     await this.running;
   }
 
@@ -83,7 +86,6 @@ export class Deliverer {
       const d = this.store.state.deliveries.find((x) => !x.done && x.next_at_ms <= Date.now());
       if (!d) return;
       const body = JSON.stringify(this.store.state.events[d.event]);
-      d.attempts += 1;
       let status: number | null = null;
       let error: string | null = null;
       try {
@@ -91,13 +93,16 @@ export class Deliverer {
           method: "POST",
           headers: { "content-type": "application/json", "stripe-signature": sign(body, this.secret) },
           body,
-          signal: AbortSignal.timeout(10_000),
+          signal: AbortSignal.any([this.abort.signal, AbortSignal.timeout(10_000)]),
         });
         status = res.status;
         await res.arrayBuffer();
       } catch (e) {
         error = e instanceof Error ? e.message : String(e);
       }
+      // Cut short by our own stop: not counted, sent again on the next start.
+      if (this.stopped && status === null) return;
+      d.attempts += 1;
       const ok = status !== null && status >= 200 && status < 300;
       d.done = ok || d.attempts >= maxAttempts;
       d.next_at_ms = Date.now() + Math.min(this.retryBaseMs * 2 ** d.attempts, maxBackoffMs);

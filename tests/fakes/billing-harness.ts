@@ -17,7 +17,7 @@ export interface Received {
   status: number;
 }
 
-/** A webhook receiver that answers each request with the next status from `answers` (then 200) and keeps every request. */
+/** A webhook receiver that answers each request with the next status from `answers` (then 200; 0 = never answer) and keeps every request. */
 export async function startReceiver(answers: number[] = []): Promise<{ url: string; received: Received[]; close(): Promise<void> }> {
   const received: Received[] = [];
   const queue = [...answers];
@@ -27,7 +27,7 @@ export async function startReceiver(answers: number[] = []): Promise<{ url: stri
     req.on("end", () => {
       const status = queue.shift() ?? 200;
       received.push({ body: Buffer.concat(chunks).toString("utf8"), signature: String(req.headers["stripe-signature"] ?? ""), status });
-      res.writeHead(status).end();
+      if (status !== 0) res.writeHead(status).end();
     });
   });
   await new Promise<void>((ok) => server.listen(0, "127.0.0.1", ok));
@@ -35,7 +35,11 @@ export async function startReceiver(answers: number[] = []): Promise<{ url: stri
   return {
     url: `http://127.0.0.1:${port}/hook`,
     received,
-    close: () => new Promise<void>((ok) => server.close(() => ok())),
+    close: () =>
+      new Promise<void>((ok) => {
+        server.closeAllConnections();
+        server.close(() => ok());
+      }),
   };
 }
 

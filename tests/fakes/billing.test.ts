@@ -485,6 +485,30 @@ describe("billing stand-in: invoicing", () => {
 });
 
 describe("billing stand-in: persistence", () => {
+  it("sends after a restart an event whose delivery was cut short by the stop", async () => {
+    const file = stateFile();
+    const silent = await startReceiver([0]);
+    const first = await bootBilling({ stateFile: file, secretKey, webhookUrl: silent.url, webhookSecret: "whsec-p", retryBaseMs: 1 });
+    const { base } = await catalogue(first.stripe, "q");
+    const customer = await first.stripe.customers.create({ name: "Q" });
+    await first.stripe.subscriptions.create({ customer: customer.id, items: [{ price: base.id }] });
+    await until(() => silent.received.length === 1);
+    await first.billing.close();
+    await silent.close();
+
+    const receiver = await startReceiver();
+    const { billing, stripe } = await bootBilling({ stateFile: file, secretKey, webhookUrl: receiver.url, webhookSecret: "whsec-p", retryBaseMs: 1 });
+    try {
+      await until(() => receiver.received.length === 1);
+      const sent = stripe.webhooks.constructEvent(receiver.received[0]!.body, receiver.received[0]!.signature, "whsec-p");
+      expect(sent.id).toBe((JSON.parse(silent.received[0]!.body) as { id: string }).id);
+      expect(sent.type).toBe("customer.subscription.created");
+    } finally {
+      await billing.close();
+      await receiver.close();
+    }
+  });
+
   it("keeps customers, usage, invoices and seen identifiers across a restart", async () => {
     const file = stateFile();
     const first = await bootBilling({ stateFile: file, secretKey });
