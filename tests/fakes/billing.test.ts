@@ -274,6 +274,28 @@ describe("billing stand-in: checkout", () => {
   });
 });
 
+describe("billing stand-in: checkout sessions that end unpaid", () => {
+  it("refuses a card that is not a test card and closes the page of an expired session", async () => {
+    const { billing, stripe } = await bootBilling({ stateFile: stateFile(), secretKey });
+    try {
+      const { base } = await catalogue(stripe, "x");
+      const customer = await stripe.customers.create({});
+      const session = await stripe.checkout.sessions.create({ mode: "subscription", customer: customer.id, line_items: [{ price: base.id, quantity: 1 }], success_url: "http://app.test/ok", cancel_url: "http://app.test/back" });
+      const unknown = await fetch(session.url!, { method: "POST", body: new URLSearchParams({ number: "4111111111111111", expiry: "12/40", cvc: "123" }) });
+      expect(unknown.status).toBe(402);
+      expect(await unknown.text()).toContain('id="payment-error"');
+      expect(await stripe.checkout.sessions.expire(session.id)).toMatchObject({ status: "expired" });
+      const gone = await fetch(session.url!);
+      expect(gone.status).toBe(410);
+      expect(await gone.text()).toMatch(/expired[\s\S]*href="http:\/\/app.test\/back"/);
+      await expect(stripe.checkout.sessions.expire(session.id)).rejects.toMatchObject({ statusCode: 400 });
+      expect((await stripe.subscriptions.list({ customer: customer.id, status: "all" })).data).toEqual([]);
+    } finally {
+      await billing.close();
+    }
+  });
+});
+
 describe("billing stand-in: webhooks", () => {
   it("signs every delivery as the SDK verifies it, retries failures and redelivers on request", async () => {
     const receiver = await startReceiver([500, 500]);
