@@ -40,6 +40,8 @@ export interface OrgCtx extends SessionCtx {
 type Handler<C> = (req: Request, ctx: C) => Promise<Response>;
 
 export const ANY_ROLE: readonly Role[] = ["owner", "developer", "billing"];
+/** Who may see and change what the organisation pays. */
+export const BILLING_ROLES: readonly Role[] = ["owner", "billing"];
 
 function validationFailed(errors: FieldError[]): ApiError {
   const first = errors[0];

@@ -4,6 +4,7 @@ import type { Role } from "@/db/schema";
 import { apiRoutes } from "@/lib/api/route-table";
 import { sessionCookie } from "@/lib/auth/session";
 import { expectProblem } from "../helpers/api";
+import { useBillingStandIn } from "../helpers/billing";
 import { EVIL_ORIGIN, consoleCall, makeConsoleOrg, type ConsoleFixture, type Method, type Person } from "../helpers/console";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
@@ -28,9 +29,13 @@ interface Row {
   foreign?: (fx: ConsoleFixture) => { path: string; body?: unknown };
 }
 
+// The billing routes talk to the provider: its local stand-in answers them here.
+useBillingStandIn();
+
 const everyone = (s: number) => ({ owner: s, developer: s, billing: s });
 const ownerOnly = (s: number) => ({ owner: s, developer: 403, billing: 403 });
 const keyHolders = (s: number) => ({ owner: s, developer: s, billing: 403 });
+const moneyRoles = (s: number) => ({ owner: s, developer: 403, billing: s });
 const org = (fx: ConsoleFixture) => `/api/console/orgs/${fx.org.slug}`;
 /** The key a role would manage as its own; billing has none, so it is pointed at the developer's. */
 const ownKey = (fx: ConsoleFixture, as: Person) => (as.id === fx.owner.id ? fx.keys.owner : fx.keys.developer).record.id;
@@ -169,6 +174,13 @@ const rows: Row[] = [
     type: /^text\/event-stream/,
     foreign: (fx) => ({ path: `${org(fx)}/simulations/${fx.otherSimulation}/events` }),
   },
+  { method: "GET", route: "/api/console/orgs/[org]/billing", does: "read the plan, the month's usage and payment state", path: (fx) => `${org(fx)}/billing`, expect: moneyRoles(200) },
+  { method: "POST", route: "/api/console/orgs/[org]/billing/checkout", does: "start a checkout for another plan", path: (fx) => `${org(fx)}/billing/checkout`, body: () => ({ plan: "beacon" }), expect: moneyRoles(201) },
+  { method: "POST", route: "/api/console/orgs/[org]/billing/downgrade", does: "move to the free plan", path: (fx) => `${org(fx)}/billing/downgrade`, expect: moneyRoles(200) },
+  { method: "GET", route: "/api/console/orgs/[org]/billing/invoices", does: "list invoices", path: (fx) => `${org(fx)}/billing/invoices`, expect: moneyRoles(200) },
+  // The fixture's org has no invoices: an allowed role learns that (404); a developer may not ask (403).
+  { method: "GET", route: "/api/console/orgs/[org]/billing/invoices/[id]", does: "read an invoice", path: (fx) => `${org(fx)}/billing/invoices/invoice.none`, expect: moneyRoles(404) },
+  { method: "GET", route: "/api/console/orgs/[org]/billing/invoices/[id]/document", does: "download an invoice", path: (fx) => `${org(fx)}/billing/invoices/invoice.none/document?format=pdf`, expect: moneyRoles(404) },
 ];
 
 /** Console routes written and tested elsewhere: they work without a session, so a role matrix does not apply. */
