@@ -4,7 +4,7 @@ import type { Role } from "@/db/schema";
 import { apiRoutes } from "@/lib/api/route-table";
 import { sessionCookie } from "@/lib/auth/session";
 import { expectProblem } from "../helpers/api";
-import { useBillingStandIn } from "../helpers/billing";
+import { billingStandInForThisFile } from "../helpers/billing";
 import { EVIL_ORIGIN, consoleCall, makeConsoleOrg, type ConsoleFixture, type Method, type Person } from "../helpers/console";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
@@ -30,7 +30,7 @@ interface Row {
 }
 
 // The billing routes talk to the provider: its local stand-in answers them here.
-useBillingStandIn();
+billingStandInForThisFile();
 
 const everyone = (s: number) => ({ owner: s, developer: s, billing: s });
 const ownerOnly = (s: number) => ({ owner: s, developer: 403, billing: 403 });

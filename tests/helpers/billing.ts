@@ -27,7 +27,7 @@ export interface BillingHarness {
  * pointing at it, and (with `webhooks`) the app's route modules listening so that its events reach
  * /api/webhooks/billing signed with the test secret. Periods close only when a test asks.
  */
-export function useBillingStandIn(opts: { webhooks?: boolean } = {}): BillingHarness {
+export function billingStandInForThisFile(opts: { webhooks?: boolean } = {}): BillingHarness {
   const h = {} as BillingHarness;
   const stateFile = join(tmpdir(), `paritas-billing-${randomUUID()}.json`);
   let app: Server | undefined;
