@@ -7,6 +7,10 @@ import { createKey, revokeKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
 import { startFakeSmtp } from "@/fakes/smtp";
+import { startFakeBilling } from "@/fakes/billing";
+import { seedDemoBilling } from "@/db/seed/demo-billing";
+import { findOrgById } from "@/db/queries/orgs";
+import { clientFor } from "@/lib/billing/provider";
 
 /** Migrate, seed the demo org, mint a fresh demo key, build, start, and print how to call the API. */
 const port = Number(process.env.PORT ?? 3000);
@@ -16,14 +20,33 @@ const orgId = await seedDemo(db);
 const old = await db.selectFrom("api_keys").select("id").where("org_id", "=", orgId).where("name", "=", "demo key").where("revoked_at", "is", null).execute();
 for (const k of old) await revokeKey(db, orgId, k.id, "cli");
 const { key } = await createKey(db, { orgId, name: "demo key", mode: "test", scopes: allScopes }, "cli");
+
+const base = `http://localhost:${port}`;
+const dataDir = dirname(resolve(databaseFile()));
+
+// The billing provider's local stand-in, in this process, its state in a file beside the database. Its webhooks go
+// to the server (retried until the server is up); the server, the runner and the reporter reach it by settings alone.
+const billingSecrets = join(dataDir, ".billing-secrets.json");
+if (!existsSync(billingSecrets)) writeFileSync(billingSecrets, JSON.stringify({ apiKey: `local-${randomBytes(12).toString("hex")}`, webhook: `local-${randomBytes(24).toString("hex")}` }), { mode: 0o600 });
+const secrets = JSON.parse(readFileSync(billingSecrets, "utf8")) as { apiKey: string; webhook: string };
+const standInOptions = { stateFile: join(dataDir, "billing-stand-in.json"), secretKey: secrets.apiKey, webhookUrl: `${base}/api/webhooks/billing`, webhookSecret: secrets.webhook, closeDelayMs: 60_000 };
+const standIn = await startFakeBilling({ port: Number(process.env.PARITAS_BILLING_PORT ?? 12111), ...standInOptions }).catch((e: NodeJS.ErrnoException) =>
+  e.code === "EADDRINUSE" ? startFakeBilling({ port: 0, ...standInOptions }) : Promise.reject(e),
+);
+const billingEnv = {
+  PARITAS_BILLING_SECRET_KEY: secrets.apiKey,
+  PARITAS_BILLING_HOST: "127.0.0.1",
+  PARITAS_BILLING_PORT: String(standIn.port),
+  PARITAS_BILLING_PROTOCOL: "http",
+  PARITAS_BILLING_WEBHOOK_SECRET: secrets.webhook,
+};
+await seedDemoBilling(db, clientFor({ secretKey: secrets.apiKey, host: "127.0.0.1", port: standIn.port, protocol: "http" }), (await findOrgById(db, orgId))!);
 await closeDb();
 
 if (process.env.PARITAS_DEMO_SKIP_BUILD !== "1") {
   const build = spawnSync("npm", ["run", "build"], { stdio: "inherit" });
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
-
-const base = `http://localhost:${port}`;
 
 // Mail goes to a fake SMTP server in this process (port 2525, or any free one if that is taken);
 // the console shows what it received at /console/dev/mailbox.
@@ -46,13 +69,18 @@ const server = spawn("node_modules/.bin/next", ["start", "-p", String(port)], {
     PARITAS_DEV_MAILBOX: "1",
     PARITAS_AUTH_SECRET: authSecret,
     NEXTAUTH_URL: process.env.NEXTAUTH_URL ?? base,
+    ...billingEnv,
   },
 });
-// The job runner (simulations, simulated claims): its own process on the same database.
-const runner = spawn("node_modules/.bin/tsx", ["scripts/worker.ts"], { stdio: "inherit", detached: true, env: { ...process.env, PARITAS_DB_FILE: databaseFile() } });
+// Beside the server, on the same database: the job runner (simulations, simulated claims) and the usage reporter
+// (live usage to the billing provider; grace periods); both send mail (allowance and payment notices).
+const sideEnv = { ...process.env, PARITAS_DB_FILE: databaseFile(), PARITAS_SMTP_URL: `smtp://127.0.0.1:${smtp.port}`, ...billingEnv };
+const runner = spawn("node_modules/.bin/tsx", ["scripts/worker.ts"], { stdio: "inherit", detached: true, env: sideEnv });
+const reporter = spawn("node_modules/.bin/tsx", ["scripts/billing-reporter.ts"], { stdio: "inherit", detached: true, env: sideEnv });
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
-    for (const child of [server, runner]) {
+    void standIn.close();
+    for (const child of [server, runner, reporter]) {
       try {
         process.kill(-child.pid!, sig);
       } catch {
@@ -62,15 +90,20 @@ for (const sig of ["SIGINT", "SIGTERM"] as const) {
   });
 }
 server.on("exit", (code) => {
-  try {
-    process.kill(-runner.pid!, "SIGTERM");
-  } catch {
-    // already stopped
+  for (const child of [runner, reporter]) {
+    try {
+      process.kill(-child.pid!, "SIGTERM");
+    } catch {
+      // already stopped
+    }
   }
   process.exit(code ?? 0);
 });
 runner.on("exit", (code, signal) => {
   if (signal !== "SIGTERM" && signal !== "SIGINT") console.error(`the job runner stopped (${code ?? signal}); simulations wait until \`npm run worker\` runs again`);
+});
+reporter.on("exit", (code, signal) => {
+  if (signal !== "SIGTERM" && signal !== "SIGINT") console.error(`the usage reporter stopped (${code ?? signal}); usage waits in the outbox until \`npm run billing:report\` runs again`);
 });
 
 for (let i = 0; i < 120; i++) {
@@ -99,4 +132,20 @@ curl -s ${base}/api/v1/capacity -H 'Authorization: Bearer ${key}' -H 'Content-Ty
 
 A claim decided by simulation (the job runner runs beside the server):
 curl -s ${base}/api/v1/claims -H 'Authorization: Bearer ${key}' -H 'Content-Type: application/json' -d '${claim}'
+
+Billing runs against a local stand-in of the billing provider at ${standIn.url} (state in ${standInOptions.stateFile}):
+the usage reporter sends live usage to it, and last month's invoice appears on the console's Billing page once that
+usage is in. Test cards on its payment page: 4242 4242 4242 4242 pays, 4000 0000 0000 0002 is declined.
 `);
+
+// Last month closes into an invoice once its usage has reached the stand-in (the reporter sends it within seconds).
+void (async () => {
+  for (let i = 0; i < 60; i++) {
+    const db = await getDb();
+    const left = await db.selectFrom("usage_events").select((eb) => eb.fn.countAll<number>().as("n")).where("reported_at", "is", null).where("mode", "=", "live").where("units", ">", 0).executeTakeFirstOrThrow();
+    if (Number(left.n) === 0) break;
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+  await fetch(`${standIn.url}/_stand-in/close-due`, { method: "POST", headers: { authorization: `Bearer ${secrets.apiKey}` } }).catch(() => undefined);
+  await closeDb();
+})();

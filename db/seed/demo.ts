@@ -1,6 +1,6 @@
 import { createHash, randomBytes } from "node:crypto";
 import type { Db } from "@/db";
-import type { KeyMode, Role } from "@/db/schema";
+import type { KeyMode, NewUsageEvent, Role } from "@/db/schema";
 import { insertApiKey } from "@/db/queries/api-keys";
 import { insertAudit, type AuditInput } from "@/db/queries/audit";
 import { findOrgBySlug } from "@/db/queries/orgs";
@@ -234,7 +234,7 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
     // 30 days of CI traffic: heavier on weekdays, a few refused calls. The shore station still
     // calls with its old relay key a few times a day; the new one has not been used yet.
     const rand = rng(20261201);
-    const rows = [];
+    const rows: NewUsageEvent[] = [];
     for (let d = 29; d >= 0; d--) {
       const day = new Date(now.getTime() - d * DAY);
       const weekday = day.getUTCDay() % 6 !== 0;
@@ -286,6 +286,9 @@ export async function seedDemo(db: Db, now = new Date()): Promise<number> {
       rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "simulations.create", method: "POST", status: 202, units: 1, duration_ms: 3.1, request_id: "req_seedsim0", created_at: created, reported_at: null });
       rows.push({ org_id: org.id, api_key_id: ci.id, endpoint: "jobs.simulation", method: "JOB", status: 200, units, duration_ms: DEMO_SIMULATION.seconds * 1000, request_id: id, created_at: ended, reported_at: null });
     }
+    // Each row draws on the allowance of its key's mode: the bench rig's test key on the test allowance.
+    const modeOf = new Map([ci, bench, oldRelay].map((k) => [k.id, k.mode]));
+    for (const r of rows) r.mode = modeOf.get(r.api_key_id!) ?? "live";
     for (let i = 0; i < rows.length; i += 200) await tx.insertInto("usage_events").values(rows.slice(i, i + 200)).execute();
     // Each key was last used at its latest call; keys without calls were never used.
     for (const k of [ci, bench, oldRelay]) {
