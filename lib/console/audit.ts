@@ -4,6 +4,7 @@ import { listAuditPage } from "@/db/queries/audit";
 import { findUsersByIds } from "@/db/queries/members";
 import type { AuditEntry, Org, Role } from "@/db/schema";
 import { cursorParam, decodeCursor, encodeCursor, limitParam } from "@/lib/api/pagination";
+import { formatMoney, isPlanId, PLANS } from "@/lib/billing/plans";
 import { invalidField } from "./common";
 
 export const auditQuery = z.strictObject({
@@ -109,6 +110,15 @@ const list = (xs: string[]) => (xs.length <= 1 ? xs.join("") : `${xs.slice(0, -1
 
 type Describe = (c: Context, e: Row, who: SentencePart) => SentencePart[];
 
+const planName = (v: unknown) => (typeof v === "string" && isPlanId(v) ? PLANS[v].name : "another plan");
+const moneyOf = (v: unknown) => (typeof v === "number" && Number.isInteger(v) ? formatMoney(v) : "an amount");
+const PLAN_CHANGE_REASONS: Record<string, string> = {
+  checkout: " after a payment through checkout",
+  requested: ", as asked",
+  "grace-ended": " because the grace period after a failed payment ended",
+  "subscription-ended": " because the subscription ended at the billing provider",
+};
+
 /** One sentence per action the product writes (lib/api/key-service.ts, lib/console/*, db/seed/demo.ts). */
 export const SENTENCES: Record<string, Describe> = {
   "org.created": (c, e, who) => [who, ` created the organisation ${str(e.details.name) ?? c.org.name}.`],
@@ -155,6 +165,13 @@ export const SENTENCES: Record<string, Describe> = {
     simulation(c, e.targetId),
     e.details.was === "queued" ? " before it started." : "; it stopped within a second, keeping the chunks it had finished.",
   ],
+  "billing.checkout_started": (_c, e, who) => [who, ` opened a checkout to move to ${planName(e.details.plan)}; the plan changes when the payment is confirmed.`],
+  "billing.plan_changed": (_c, e, who) => [who, ` moved the organisation from ${planName(e.details.from)} to ${planName(e.details.to)}`, PLAN_CHANGE_REASONS[str(e.details.reason) ?? ""] ?? "", "."],
+  "billing.payment_failed": (_c, e, who) => {
+    const grace = str(e.details.graceUntil);
+    return [who, " recorded a failed payment of ", moneyOf(e.details.amount), ` for invoice ${e.targetId}`, ...(grace ? ["; the plan stays until ", { at: grace }, " unless it is paid"] : []), "."];
+  },
+  "billing.payment_recovered": (_c, e, who) => [who, " recorded the payment of ", moneyOf(e.details.amount), ` for invoice ${e.targetId}; the grace period ended.`],
   "key.revoked": (c, e, who) => [who, " revoked the key ", ...key(c, Number(e.targetId), e.details), "; it stopped working at once."],
   "member.invited": (_c, e, who) => {
     const replaced = Array.isArray(e.details.replaced) && e.details.replaced.length > 0;

@@ -63,6 +63,12 @@ beforeAll(async () => {
   await insertAudit(fx.db, { orgId: fx.org.id, actor: `user:${fx.owner.id}`, action: "org.created", targetType: "org", targetId: fx.org.id, details: { name: fx.org.name, plan: "team" } });
   await insertAudit(fx.db, { orgId: fx.org.id, actor: `user:${fx.owner.id}`, action: "widget.polished", targetType: "widget_part", targetId: 7 });
   performed.push("org.created", "widget.polished");
+  // Billing writes its entries when the provider's events arrive (lib/billing/accounts.ts); the flows are tested in tests/billing.
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: `user:${fx.billing.id}`, action: "billing.checkout_started", targetType: "org", targetId: fx.org.id, details: { plan: "beacon" } });
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: "system", action: "billing.plan_changed", targetType: "org", targetId: fx.org.id, details: { from: "lantern", to: "beacon", reason: "checkout" } });
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: "system", action: "billing.payment_failed", targetType: "invoice", targetId: "invoice.q1w2e3r4t5y6", details: { amount: 14146, graceUntil: "2027-01-08T00:00:00.000Z" } });
+  await insertAudit(fx.db, { orgId: fx.org.id, actor: "system", action: "billing.payment_recovered", targetType: "invoice", targetId: "invoice.q1w2e3r4t5y6", details: { amount: 14146 } });
+  performed.push("billing.checkout_started", "billing.plan_changed", "billing.payment_failed", "billing.payment_recovered");
   // Scripts act too.
   for (const actor of ["cli", "demo", "bench", "system"]) {
     await insertAudit(fx.db, { orgId: fx.org.id, actor, action: "key.created", targetType: "api_key", targetId: 1 });
@@ -208,6 +214,10 @@ describe("each entry as a sentence", () => {
       "developer received a bench credential: a test key for compute, usage:read and claims that the console's bench renews hourly while they use it. It is not listed among the keys, and it ends when they leave or lose the bench.",
     );
     expect(text(one("invitation.revoked").sentence)).toBe(`co-owner withdrew the invitation to ${invitee}.`);
+    expect(text(one("billing.checkout_started").sentence)).toBe("billing opened a checkout to move to Beacon; the plan changes when the payment is confirmed.");
+    expect(text(one("billing.plan_changed").sentence)).toBe("The system moved the organisation from Lantern to Beacon after a payment through checkout.");
+    expect(text(one("billing.payment_failed").sentence)).toBe("The system recorded a failed payment of $141.46 for invoice invoice.q1w2e3r4t5y6; the plan stays until [2027-01-08T00:00:00.000Z] unless it is paid.");
+    expect(text(one("billing.payment_recovered").sentence)).toBe("The system recorded the payment of $141.46 for invoice invoice.q1w2e3r4t5y6; the grace period ended.");
     expect(text(one("member.role_changed").sentence)).toBe("owner changed the role of spare from developer to billing admin.");
     expect(text(one("member.removed", (e) => e.targetId === String(fx.spare.id)).sentence)).toBe("owner removed spare (billing admin); the keys they created keep working.");
     expect(text(one("member.removed", (e) => e.targetId === String(joiner.id)).sentence)).toBe("joiner left the organisation and revoked every working key they had created.");
@@ -223,7 +233,7 @@ describe("each entry as a sentence", () => {
   });
 
   it("names scripts as the operator CLI or the system, and still writes a sentence for an action it does not know", () => {
-    const scripted = entries.filter((e) => e.actor.kind !== "user").map((e) => text(e.sentence));
+    const scripted = entries.filter((e) => e.actor.kind !== "user" && e.action === "key.created").map((e) => text(e.sentence));
     const ownerKey = `the key “owner key” (${fx.keys.owner.record.prefix}…)`;
     expect(scripted).toEqual([`The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The system created ${ownerKey}.`, `The operator CLI created ${ownerKey}.`]);
     expect(text(one("widget.polished").sentence)).toBe("owner recorded widget.polished on widget part 7.");
