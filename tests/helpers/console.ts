@@ -82,7 +82,7 @@ const key = (db: Db, org: Org, by: Person | null, name: string) =>
 export async function makeConsoleOrg() {
   const db = await getDb();
   // The largest plan, so the console suites never meet an allowance or a job budget (the billing suites choose theirs).
-  const org = await insertOrg(db, { slug: `org-${unique()}`, name: "Console org", plan: "lighthouse" });
+  const org = await insertOrg(db, { slug: `console-org-${unique()}`, name: "Console org", plan: "lighthouse" });
   const owner = await addMember(db, org, "owner", "owner");
   const coOwner = await addMember(db, org, "co-owner", "owner");
   const developer = await addMember(db, org, "developer", "developer");
