@@ -4,6 +4,7 @@ import { MAX_BODY_BYTES } from "@/lib/api/body";
 import { problemSchema, problemTypes, problemTypeUri, type ProblemCode } from "@/lib/api/errors";
 import { IDEMPOTENCY_KEY_PATTERN, IDEMPOTENCY_TTL_MS } from "@/lib/api/idempotency";
 import { RATE_WINDOW_SECONDS } from "@/lib/api/rate-limit";
+import { formatMoney, PLAN_IDS, PLANS } from "@/lib/billing/plans";
 import { endpoints } from "@/lib/api/registry";
 import { caution } from "@/lib/api/schemas";
 import { scopeCatalogue } from "@/lib/api/scopes";
@@ -30,6 +31,10 @@ const rateHeaders = {
   RateLimit: { description: "Requests left in the current window and seconds until it resets (IETF RateLimit header fields).", schema: { type: "string" as const, example: '"per-key";r=599;t=42' } },
   "RateLimit-Policy": { description: `Requests per ${RATE_WINDOW_SECONDS}-second window for this key.`, schema: { type: "string" as const, example: `"per-key";q=600;w=${RATE_WINDOW_SECONDS}` } },
   "X-Request-Id": { description: "Identifies this request in logs and usage rows.", schema: { type: "string" as const } },
+  "Units-Allowance": { description: "Compute units a month the key's allowance holds (live and test keys have their own, by plan).", schema: { type: "integer" as const } },
+  "Units-Used": { description: "Units used this month after this call, including units held by running jobs.", schema: { type: "integer" as const } },
+  "Units-Remaining": { description: "Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop).", schema: { type: "integer" as const } },
+  "Units-Reset": { description: "When the allowance renews: the start of the next calendar month, UTC (ISO 8601).", schema: { type: "string" as const } },
 };
 
 /** The problems one status can carry: the headers they come with, and each type explained. */
@@ -112,6 +117,7 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
         ...(e.params ? { 404: problem("not-found") } : {}),
         ...(noBody ? {} : { 400: problem("bad-request"), 409: problem("conflict"), 413: problem("payload-too-large"), 415: problem("unsupported-media-type") }),
         401: problem("unauthenticated"),
+        ...(compute || (e.kind === "data" && e.cost > 0) || more(402).length ? { 402: problem("quota-exhausted") } : {}),
         403: problem("forbidden"),
         422: noBody ? problem("validation-failed", ...more(422)) : problem("validation-failed", "idempotency-key-reused", ...(compute ? (["work-limit", "deadline-exceeded", "memory-limit"] as const) : []), ...more(422)),
         429: problem("rate-limited", ...more(429)),
@@ -201,6 +207,15 @@ function addQueryExamples(document: ReturnType<typeof generate>): void {
   }
 }
 
+/** The plan catalogue as a Markdown table for the reference's introduction. */
+function planTable(): string {
+  const rows = PLAN_IDS.map((id) => PLANS[id]).map(
+    (p) =>
+      `| ${p.name} | ${p.monthlyFee ? formatMoney(p.monthlyFee) : "free"} | ${p.includedUnits.toLocaleString("en-US")} | ${p.overagePerUnit === null ? "stops at the allowance" : `${formatMoney(p.overagePerUnit)} a unit`} | ${p.testUnits.toLocaleString("en-US")} | 2^${Math.log2(p.maxBitsPerJob)} bits, ${p.maxActiveJobs} at once |`,
+  );
+  return ["| plan | a month | live units included | beyond | test-key units | simulation jobs |", "|---|---|---|---|---|---|", ...rows].join("\n");
+}
+
 function generate(registry: OpenAPIRegistry) {
   const scopes = Object.entries(scopeCatalogue).map(([s, d]) => `- \`${s}\`: ${d}`).join("\n");
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
@@ -211,7 +226,8 @@ function generate(registry: OpenAPIRegistry) {
       description:
         "Channel-coding math as an API: distances and codebooks, BSC error probabilities, capacity and the Shannon limit, uncoded BER on AWGN.\n\n" +
         "Authenticate with `Authorization: Bearer <key>`. Errors are RFC 9457 problem details (`application/problem+json`); validation failures list each field as a JSON pointer. " +
-        `Every response carries \`X-Request-Id\` and the RateLimit header fields; bodies are limited to ${MAX_BODY_BYTES} bytes.\n\nScopes:\n${scopes}\n\n${caution}`,
+        `Every response carries \`X-Request-Id\` and the RateLimit header fields, and every authenticated one the monthly allowance (\`Units-Allowance\`, \`Units-Used\`, \`Units-Remaining\`, \`Units-Reset\`); bodies are limited to ${MAX_BODY_BYTES} bytes.\n\n` +
+        `Plans (compute units per calendar month, UTC):\n\n${planTable()}\n\nA call that needs more units than the allowance has left is refused before any work with a 402 \`quota-exhausted\` problem where the plan stops at its allowance. A job holds the most units it can cost while it runs and gives back what it did not use.\n\nScopes:\n${scopes}\n\n${caution}`,
     },
     servers: [{ url: "/api/v1" }],
   });

@@ -1,5 +1,6 @@
 "use client";
 
+import { planOf } from "@/lib/billing/plans";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import type { ReactNode } from "react";
@@ -63,8 +64,8 @@ export function OrgSummaryView() {
           </span>
         </h2>
         <dl className="mt-3 grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
-          <Stat label="Plan">
-            <span className="capitalize">{org.plan}</span>
+          <Stat label="Plan" foot={`${formatInt(planOf(org.plan).includedUnits)} live units a month`}>
+            {planOf(org.plan).name}
           </Stat>
           <Stat label="Compute units" foot={usage.data ? `${formatInt(usage.data.totals.calls)} calls` : usage.isError ? "could not load usage" : undefined}>
             {usage.data ? formatInt(usage.data.totals.units) : usage.isError ? "—" : <Pending />}
