@@ -1,5 +1,6 @@
 import path from "node:path";
 import PDFDocument from "pdfkit";
+import { remaining } from "./invoice-amounts";
 import { formatMoney } from "./plans";
 import type { InvoiceDetail, InvoiceStatus } from "./views";
 
@@ -61,7 +62,7 @@ const RULE = "#c9cdd2";
 
 /**
  * The invoice as an A4 PDF: organisation, number, status, period, the line items (description,
- * quantity, unit price, amount), the total, paid and due. Its dates come from the invoice alone,
+ * quantity, unit price, amount), the total, paid and remaining. Its dates come from the invoice alone,
  * so the same invoice always gives the same bytes.
  */
 export function invoicePdf(inv: InvoiceDetail): Promise<Buffer> {
@@ -152,7 +153,7 @@ export function invoicePdf(inv: InvoiceDetail): Promise<Buffer> {
   const sums: [string, number, boolean][] = [
     ["Total", inv.total, true],
     ["Amount paid", inv.amountPaid, false],
-    ["Amount due", inv.amountDue, true],
+    ["Amount remaining", remaining(inv), true],
   ];
   for (const [label, cents, strong] of sums) {
     doc.font(strong ? "strong" : "regular").fontSize(10.5).fillColor(INK).text(label, x.unit - 60, y, { width: cols.qty + 60, align: "left" });

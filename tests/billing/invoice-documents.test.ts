@@ -1,6 +1,7 @@
 import { parse } from "csv-parse/sync";
 import { PDFParse } from "pdf-parse";
 import { describe, expect, it } from "vitest";
+import { remaining } from "@/lib/billing/invoice-amounts";
 import { decimalAmount, invoiceCsv, invoicePdf } from "@/lib/billing/invoice-documents";
 import type { InvoiceDetail } from "@/lib/billing/views";
 
@@ -123,7 +124,7 @@ describe("invoicePdf", () => {
       expect(t).toContain(s);
     }
     expect(t).toMatch(/Total\s*\$1,057\.96/);
-    expect(t).toMatch(/Amount due\s*\$1,057\.96/);
+    expect(t).toMatch(/Amount remaining\s*\$1,057\.96/);
     expect(t).toMatch(/Amount paid\s*\$0\.00/);
   });
 
@@ -133,7 +134,8 @@ describe("invoicePdf", () => {
       status: "paid",
       total: 14_146,
       amountPaid: 14_146,
-      amountDue: 0,
+      // The provider keeps the whole amount as due once it is paid.
+      amountDue: 14_146,
       paidAt: "2026-12-02T09:00:00.000Z",
       lines: [{ ...invoice.lines[0]!, description: "Lighthouse plan", quantity: 1, unitAmount: 14_146, amount: 14_146 }],
     };
@@ -141,6 +143,7 @@ describe("invoicePdf", () => {
     expect(t).toContain("Paid on 2 December 2026");
     expect(t).toContain("$141.46");
     expect(t).toMatch(/Amount paid\s*\$141\.46/);
+    expect(t).toMatch(/Amount remaining\s*\$0\.00/);
   });
 
   it("carries its title and author, and dates itself from the invoice", async () => {
@@ -165,5 +168,14 @@ describe("invoicePdf", () => {
     expect(pdf).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexSans/);
     expect(pdf).toMatch(/\/BaseFont \/[A-Z]{6}\+IBMPlexMono/);
     expect(pdf).not.toContain("/Helvetica");
+  });
+});
+
+describe("remaining", () => {
+  it("is what is due less what was paid, never below zero", () => {
+    expect(remaining({ amountDue: 3_900, amountPaid: 0 })).toBe(3_900);
+    expect(remaining({ amountDue: 3_900, amountPaid: 3_900 })).toBe(0);
+    expect(remaining({ amountDue: 3_900, amountPaid: 1_000 })).toBe(2_900);
+    expect(remaining({ amountDue: 0, amountPaid: 3_900 })).toBe(0);
   });
 });

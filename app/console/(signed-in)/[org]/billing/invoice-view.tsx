@@ -4,6 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { IconDownload } from "@/components/console/icons";
 import { LoadError, Loading } from "@/components/console/states";
 import { buttonSecondary, buttonSmall, stackBody, stackCell, stackHead, stackRow, stackTable, tableHead } from "@/components/console/ui";
+import { remaining } from "@/lib/billing/invoice-amounts";
 import { formatMoney } from "@/lib/billing/plans";
 import { formatInt } from "@/lib/console-client/format";
 import { billingApi, billingKeys } from "./billing-api";
@@ -48,8 +49,8 @@ export function InvoiceView({ org, id, title }: { org: string; id: string; title
         <dd className="text-right font-mono font-medium tabular-nums">{formatMoney(d.total)}</dd>
         <dt className="text-ink-2">Paid</dt>
         <dd className="text-right font-mono tabular-nums">{formatMoney(d.amountPaid)}</dd>
-        <dt className="text-ink-2">Due</dt>
-        <dd className="text-right font-mono tabular-nums">{formatMoney(d.amountDue)}</dd>
+        <dt className="text-ink-2">Remaining</dt>
+        <dd className="text-right font-mono tabular-nums">{formatMoney(remaining(d))}</dd>
       </dl>
       <div className="flex flex-wrap items-center gap-2 text-sm">
         <span className="text-ink-2">Download:</span>
