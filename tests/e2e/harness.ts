@@ -1,6 +1,7 @@
 /**
- * End-to-end harness: one production build, one `next start` server, one fake SMTP server and
- * one headless Chromium per test file, on a throw-away SQLite database seeded with the demo org.
+ * End-to-end harness: one production build, one `next start` server, one fake SMTP server, one
+ * billing stand-in and one headless Chromium per test file, on a throw-away SQLite database seeded
+ * with the demo org; the job runner and the usage reporter run beside the server, as in the demo.
  *
  *   const e2e = await startE2E();      // in beforeAll (allow several minutes: it may build)
  *   const s = await e2e.session();     // a fresh browser context + page per test
@@ -22,6 +23,7 @@ import axe from "axe-core";
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from "playwright-core";
 import { migrate, openDb } from "@/db";
 import { seedDemo } from "@/db/seed/demo";
+import { startFakeBilling, type FakeBilling } from "@/fakes/billing";
 import { waitForMessage } from "@/fakes/mailbox";
 import { startFakeSmtp, type FakeSmtp } from "@/fakes/smtp";
 
@@ -142,6 +144,8 @@ export interface E2E {
   dbFile: string;
   mailboxDir: string;
   smtp: FakeSmtp;
+  /** The billing provider's stand-in; its control endpoints (/_stand-in/…) take `Bearer <secretKey>`. */
+  billing: FakeBilling & { secretKey: string };
   browser: Browser;
   build: { built: boolean; ms: number };
   serverOutput(): string;
@@ -204,6 +208,10 @@ export async function startE2E(): Promise<E2E> {
   const smtp = await startFakeSmtp({ port: 0, dir: mailboxDir });
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
+  // Its webhooks go to the server, retried until the server is up; fresh secrets every run.
+  const billingSecretKey = `e2e-${randomBytes(12).toString("hex")}`;
+  const webhookSecret = `e2e-${randomBytes(24).toString("hex")}`;
+  const billing = await startFakeBilling({ port: 0, stateFile: join(tmp, "billing-stand-in.json"), secretKey: billingSecretKey, webhookUrl: `${baseUrl}/api/webhooks/billing`, webhookSecret });
   const out = new OutputTail();
   const env: NodeJS.ProcessEnv = {
     PATH: process.env.PATH,
@@ -217,6 +225,11 @@ export async function startE2E(): Promise<E2E> {
     PARITAS_AUTH_SECRET: randomBytes(32).toString("base64url"),
     NEXTAUTH_URL: baseUrl,
     NEXT_TELEMETRY_DISABLED: "1",
+    PARITAS_BILLING_SECRET_KEY: billingSecretKey,
+    PARITAS_BILLING_HOST: "127.0.0.1",
+    PARITAS_BILLING_PORT: String(billing.port),
+    PARITAS_BILLING_PROTOCOL: "http",
+    PARITAS_BILLING_WEBHOOK_SECRET: webhookSecret,
   };
   const child = spawn(join(ROOT, "node_modules", ".bin", "next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
     cwd: ROOT,
@@ -230,12 +243,18 @@ export async function startE2E(): Promise<E2E> {
   const runner = spawn(join(ROOT, "node_modules", ".bin", "tsx"), ["scripts/worker.ts"], { cwd: ROOT, env, detached: true, stdio: ["ignore", "pipe", "pipe"] });
   runner.stdout!.on("data", (b: Buffer) => out.push(b));
   runner.stderr!.on("data", (b: Buffer) => out.push(b));
+  // The usage reporter too: live usage goes to the billing stand-in as meter events, so a closed period invoices it.
+  const reporter = spawn(join(ROOT, "node_modules", ".bin", "tsx"), ["scripts/billing-reporter.ts"], { cwd: ROOT, env, detached: true, stdio: ["ignore", "pipe", "pipe"] });
+  reporter.stdout!.on("data", (b: Buffer) => out.push(b));
+  reporter.stderr!.on("data", (b: Buffer) => out.push(b));
 
   let browser: Browser | undefined;
   const cleanup = async () => {
     await browser?.close().catch(() => undefined);
+    await stopServer(reporter);
     await stopServer(runner);
     await stopServer(child);
+    await billing.close().catch(() => undefined);
     await smtp.close().catch(() => undefined);
     rmSync(tmp, { recursive: true, force: true });
   };
@@ -309,6 +328,7 @@ export async function startE2E(): Promise<E2E> {
     dbFile,
     mailboxDir,
     smtp,
+    billing: { ...billing, secretKey: billingSecretKey },
     browser: b,
     build,
     serverOutput: () => out.text(),
