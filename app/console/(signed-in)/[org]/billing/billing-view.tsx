@@ -88,7 +88,7 @@ function ThisMonth({ o }: { o: BillingOverview }) {
           used={live.used}
           allowance={live.allowance}
           projected={live.projected}
-          words={meterWords(live.used, live.allowance, live.projected, day(o.period.end, true))}
+          words={meterWords(live.used, live.allowance, live.projected, day(o.period.end, true).replace(" ", "\u00a0"))}
         />
         {live.projected > live.used ? (
           <p className="flex items-center gap-2 text-xs text-ink-2">

@@ -1,6 +1,6 @@
 "use client";
 
-import { useQuery } from "@tanstack/react-query";
+import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useSearchParams } from "next/navigation";
 import { useEffect, useState } from "react";
 import { isPaid, type PlanId } from "@/lib/billing/plans";
@@ -46,33 +46,37 @@ const note = "flex items-start gap-3 rounded-lg border border-l-[6px] px-4 py-3"
 
 /** After the payment page: what happened, and for a payment, the wait until the provider confirms the new plan. */
 function CheckoutDone({ org }: { org: string }) {
+  const qc = useQueryClient();
   const [expected] = useState(() => recalled(org));
   const [timedOut, setTimedOut] = useState(false);
+  // The plan the confirmation named: kept once seen, so a later change on this page does not restart the wait.
+  const [confirmed, setConfirmed] = useState<string | null>(null);
   const overview = useQuery({
     queryKey: billingKeys.overview(org),
     queryFn: ({ signal }) => billingApi.overview(org, signal),
-    refetchInterval: (q) => {
-      const plan = q.state.data?.plan;
-      const confirmed = plan ? (expected ? plan.id === expected.to : isPaid(plan)) : false;
-      return confirmed || timedOut ? false : 1_000;
-    },
+    refetchInterval: confirmed || timedOut ? false : 1_000,
   });
   const plan = overview.data?.plan;
-  const confirmed = plan ? (expected ? plan.id === expected.to : isPaid(plan)) : false;
+  const arrived = plan !== undefined && (expected ? plan.id === expected.to : isPaid(plan));
 
   useEffect(() => {
     const t = setTimeout(() => setTimedOut(true), CONFIRM_WAIT_MS);
     return () => clearTimeout(t);
   }, []);
+  // Set while rendering (React's pattern for state derived from a change), not in an effect.
+  if (arrived && confirmed === null) setConfirmed(plan.name);
   useEffect(() => {
-    if (confirmed) forget(org);
-  }, [confirmed, org]);
+    if (confirmed === null) return;
+    forget(org);
+    // The change of plan may have issued an invoice.
+    void qc.invalidateQueries({ queryKey: billingKeys.all(org) });
+  }, [confirmed, org, qc]);
 
-  if (confirmed && plan) {
+  if (confirmed !== null) {
     return (
       <div role="status" className={`${note} border-accent/50 border-l-accent bg-accent-soft`}>
         <IconCheck className="mt-0.5 h-5 w-5 shrink-0 text-accent" />
-        <p className="font-medium">You are now on {plan.name}.</p>
+        <p className="font-medium">You are now on {confirmed}.</p>
       </div>
     );
   }

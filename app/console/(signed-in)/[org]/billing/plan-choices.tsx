@@ -1,6 +1,7 @@
 "use client";
 
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { usePathname, useRouter } from "next/navigation";
 import { useState } from "react";
 import { ConfirmDialog } from "@/components/console/confirm-dialog";
 import { ProblemView } from "@/components/console/problem-view";
@@ -16,6 +17,8 @@ import { rememberCheckout } from "./checkout-notice";
 /** What moving to the free plan changes, said before it happens. */
 function DowngradeConfirmation({ org, overview, to, open, onClose }: { org: string; overview: BillingOverview; to: PlanView; open: boolean; onClose: () => void }) {
   const qc = useQueryClient();
+  const router = useRouter();
+  const pathname = usePathname();
   const from = overview.plan;
   const overageUnits = Math.max(0, overview.live.used - from.includedUnits);
   const overage = overageUnits * (from.overagePerUnit ?? 0);
@@ -31,6 +34,8 @@ function DowngradeConfirmation({ org, overview, to, open, onClose }: { org: stri
         const next = await billingApi.downgrade(org);
         qc.setQueryData(billingKeys.overview(org), next);
         await qc.invalidateQueries({ queryKey: billingKeys.all(org) });
+        // A notice about an earlier checkout no longer describes the plan.
+        router.replace(pathname, { scroll: false });
       }}
     >
       <p>

@@ -34,7 +34,7 @@ export function UsageMeter({ label, used, allowance, projected, words }: { label
       </div>
       <p className="flex flex-wrap justify-between gap-x-3 text-sm">
         <span>{words}</span>
-        <span className="font-mono text-xs text-ink-2 tabular-nums">{share} %</span>
+        <span className="ml-auto font-mono text-xs text-ink-2 tabular-nums">{share === 0 && used > 0 ? "under 1 %" : `${share} %`}</span>
       </p>
     </div>
   );
