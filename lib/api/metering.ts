@@ -40,6 +40,8 @@ export async function recordUsage(
   const units = u.status < 400 ? u.units : 0;
   const held = reservation ?? (await reserveQuota(db, u.payer, 0, u.at));
   const state = await inTransaction(db, async (tx) => {
+    // Settled before the row is written: a counter created by the settling starts from the ledger without this row.
+    const after = await settleQuota(tx, held, units, u.at);
     await insertUsageEvent(tx, {
       org_id: u.payer.orgId,
       api_key_id: u.keyId,
@@ -53,7 +55,7 @@ export async function recordUsage(
       reported_at: null,
       mode: u.payer.mode,
     });
-    return settleQuota(tx, held, units, u.at);
+    return after;
   });
   if (units > 0) void afterSettle(db, state, u.payer.orgId).catch((e: unknown) => console.error("allowance notice failed", e));
   return state;

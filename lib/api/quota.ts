@@ -68,7 +68,8 @@ export async function reserveQuota(db: Db, payer: Payer, units: number, at = new
 /**
  * Settle a reservation with the units actually charged (0 when the call was refused or failed): the difference goes
  * back to (or is taken from) the month it was reserved in, and the charge counts in the month it is recorded in.
- * Call it inside the transaction that writes the usage row. Returns the state after.
+ * Call it inside the transaction that writes the usage row, before writing it (a counter created here starts from
+ * the ledger, which must not hold the row yet). Returns the state after.
  */
 export async function settleQuota(tx: Db, r: Reservation, charged: number, at = new Date()): Promise<QuotaState> {
   const month = monthKey(at);

@@ -83,6 +83,8 @@ export function databaseQueue(db: Db): JobQueue {
           .executeTakeFirstOrThrow();
         const payer = { orgId: job.org_id, plan: job.plan, mode: job.mode ?? ("live" as const) };
         const units = end.status === "failed" ? 0 : end.units;
+        // Settled before the row is written: a counter created by the settling (a job ending in a later month) starts from the ledger without this row.
+        const state = await settleQuota(tx, { payer, month: monthKey(job.created_at), units: job.reserved_units }, units, now);
         await insertUsageEvent(tx, {
           org_id: job.org_id,
           api_key_id: job.api_key_id,
@@ -96,7 +98,6 @@ export function databaseQueue(db: Db): JobQueue {
           reported_at: null,
           mode: payer.mode,
         });
-        const state = await settleQuota(tx, { payer, month: monthKey(job.created_at), units: job.reserved_units }, units, now);
         return { state, orgId: job.org_id, units };
       });
       if (!settled) return false;

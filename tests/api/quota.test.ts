@@ -2,13 +2,16 @@ import { sql } from "kysely";
 import { describe, expect, it, vi } from "vitest";
 import type { Db } from "@/db";
 import { setOrgPlan } from "@/db/queries/billing";
+import { insertJob } from "@/db/queries/jobs";
 import { monthKey } from "@/db/queries/quota";
 import { insertUsageEvent } from "@/db/queries/usage";
 import type { KeyMode } from "@/db/schema";
 import { createKey } from "@/lib/api/key-service";
 import { recordUsage } from "@/lib/api/metering";
+import { reserveQuota } from "@/lib/api/quota";
 import { allScopes } from "@/lib/api/scopes";
 import { PLANS } from "@/lib/billing/plans";
+import { databaseQueue } from "@/lib/jobs/queue";
 import { api, expectProblem, getQuery, postJson } from "../helpers/api";
 import { makeConsoleOrg, sentMails } from "../helpers/console";
 import { makeOrgWithKey } from "../helpers/fixtures";
@@ -349,5 +352,44 @@ describe("concurrency", () => {
     expect(await counter(db, org.id, "live")).toBe(LANTERN.includedUnits);
     expect(await ledger(db, org.id, "live")).toBe(LANTERN.includedUnits);
     expect((await usageRows(db, org.id)).filter((r) => r.status === 402 && r.units === 0)).toHaveLength(10);
+  });
+});
+
+describe("counters made while a usage row is written", () => {
+  it("a job queued last month and ending this month: last month gets its reservation back, this month counts the charge once", async () => {
+    const { db, org, keyId } = await makeOrgWithKey({ plan: "beacon", mode: "live" });
+    const now = new Date();
+    const lastMonth = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 15));
+    const payer = { orgId: org.id, plan: "beacon", mode: "live" as const };
+    // As enqueueSimulation does, but last month: 10 units held, the job running under a lease.
+    await reserveQuota(db, payer, 10, lastMonth);
+    const id = "sim-quotamonthend00";
+    await insertJob(db, {
+      id,
+      org_id: org.id,
+      api_key_id: keyId,
+      kind: "simulation",
+      input: JSON.stringify(simOfBits(10 * 2 ** 26)),
+      status: "running",
+      created_at: lastMonth.toISOString(),
+      updated_at: lastMonth.toISOString(),
+      started_at: lastMonth.toISOString(),
+      lease_holder: "quota-holder",
+      lease_expires_at: new Date(now.getTime() + 60_000).toISOString(),
+      reserved_units: 10,
+    });
+    expect(await databaseQueue(db).finish(id, "quota-holder", { status: "done", units: 3 })).toBe(true);
+    const before = await db.selectFrom("quota_counters").select("used").where("org_id", "=", org.id).where("period", "=", monthKey(lastMonth)).executeTakeFirstOrThrow();
+    expect(before.used).toBe(0);
+    expect(await ledger(db, org.id, "live")).toBe(3);
+    expect(await counter(db, org.id, "live")).toBe(3);
+  });
+
+  it("usage recorded without a reservation as the month's first row is counted once", async () => {
+    const { db, org } = await makeOrgWithKey({ plan: "beacon", mode: "live" });
+    const state = await recordUsage(db, { payer: { orgId: org.id, plan: "beacon", mode: "live" }, keyId: null, endpoint: "distance", method: "POST", status: 200, units: 5, durationMs: 1, requestId: `first-${process.pid}`, at: new Date() });
+    expect(await ledger(db, org.id, "live")).toBe(5);
+    expect(await counter(db, org.id, "live")).toBe(5);
+    expect(state.used).toBe(5);
   });
 });
