@@ -1,6 +1,6 @@
 import { sql } from "kysely";
 import { describe, expect, it, vi } from "vitest";
-import type { Db } from "@/db";
+import { databaseFile, openDb, type Db } from "@/db";
 import { setOrgPlan } from "@/db/queries/billing";
 import { insertJob } from "@/db/queries/jobs";
 import { monthKey } from "@/db/queries/quota";
@@ -10,7 +10,8 @@ import { createKey } from "@/lib/api/key-service";
 import { recordUsage } from "@/lib/api/metering";
 import { reserveQuota } from "@/lib/api/quota";
 import { allScopes } from "@/lib/api/scopes";
-import { PLANS } from "@/lib/billing/plans";
+import { announceAllowance } from "@/lib/billing/notices";
+import { NOTICE_THRESHOLDS, PLANS } from "@/lib/billing/plans";
 import { databaseQueue } from "@/lib/jobs/queue";
 import { api, expectProblem, getQuery, postJson } from "../helpers/api";
 import { makeConsoleOrg, sentMails } from "../helpers/console";
@@ -274,6 +275,11 @@ describe("allowance e-mails", () => {
     const after = f.mails();
     expect(after).toHaveLength(6);
     expect(after.filter((m) => m.to === f.developer.email || m.to === f.spare.email)).toEqual([]);
+    // Another process (its own connection, none of this one's memory) past both thresholds sends nothing either.
+    const elsewhere = openDb(databaseFile());
+    await announceAllowance(elsewhere, { orgId: f.org.id, plan: BEACON, month: month(), used: BEACON.includedUnits + 2, resetsAt: nextReset(), thresholds: NOTICE_THRESHOLDS });
+    await elsewhere.destroy();
+    expect(f.mails()).toHaveLength(6);
   });
 
   it("Lantern: the 100 % mail says live calls are now refused", async () => {
