@@ -145,6 +145,11 @@ describe("the call that reaches the allowance, and the one after (Lantern, live)
     // Test keys' allowance is untouched, and no job or reservation appeared.
     expect(await counter(db, org.id, "test")).toBeUndefined();
     expect(await db.selectFrom("jobs").select("id").where("org_id", "=", org.id).execute()).toEqual([]);
+
+    // A free call (GET /usage costs 0 units) still answers with the allowance used up.
+    const free = await getQuery("/api/v1/usage", {}, auth);
+    expect(free.status, free.text).toBe(200);
+    expect(quotaHeadersOf(free.headers)).toEqual({ allowance: LANTERN.includedUnits, used: LANTERN.includedUnits, remaining: 0, reset: nextReset() });
   });
 
   it("a simulation whose reservation is more than what is left is refused whole: 402, no job, counter unchanged; one that just fits is queued", async () => {
