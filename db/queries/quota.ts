@@ -15,6 +15,9 @@ const monthBounds = (month: string) => {
  * units still reserved by the org's unfinished jobs queued that month, so a counter made late agrees with both.
  */
 async function ensureCounter(db: Db, orgId: number, mode: KeyMode, month: string): Promise<void> {
+  // A point lookup first: the insert's ledger sum would be evaluated (a scan of the month) even when the row exists.
+  const exists = await db.selectFrom("quota_counters").select("used").where("org_id", "=", orgId).where("mode", "=", mode).where("period", "=", month).executeTakeFirst();
+  if (exists) return;
   const { from, to } = monthBounds(month);
   await sql`
     insert into quota_counters (org_id, mode, period, used)
@@ -33,35 +36,35 @@ export async function unitsUsed(db: Db, orgId: number, mode: KeyMode, month: str
   return row.used;
 }
 
+const counter = (db: Db, q: { orgId: number; mode: KeyMode; month: string }) =>
+  db.updateTable("quota_counters").where("org_id", "=", q.orgId).where("mode", "=", q.mode).where("period", "=", q.month);
+
 /**
  * Take `units` from the month's counter in one conditional update: with `cap`, only while used + units ≤ cap.
  * Returns the counter after the update, or null (and changes nothing) when the cap would be passed.
+ * The update is tried first: the counter exists on every call but a month's first, which makes it and tries again.
  */
 export async function reserveUnits(db: Db, q: { orgId: number; mode: KeyMode; month: string; units: number; cap: number | null }): Promise<number | null> {
+  const take = async () => {
+    let update = counter(db, q).set({ used: sql`used + ${q.units}` });
+    if (q.cap !== null) update = update.where(sql<boolean>`used + ${q.units} <= ${q.cap}`);
+    return (await update.returning("used").executeTakeFirst())?.used;
+  };
+  const used = await take();
+  if (used !== undefined) return used;
+  const exists = await db.selectFrom("quota_counters").select("used").where("org_id", "=", q.orgId).where("mode", "=", q.mode).where("period", "=", q.month).executeTakeFirst();
+  if (exists) return null;
   await ensureCounter(db, q.orgId, q.mode, q.month);
-  let update = db
-    .updateTable("quota_counters")
-    .set({ used: sql`used + ${q.units}` })
-    .where("org_id", "=", q.orgId)
-    .where("mode", "=", q.mode)
-    .where("period", "=", q.month);
-  if (q.cap !== null) update = update.where(sql<boolean>`used + ${q.units} <= ${q.cap}`);
-  const row = await update.returning("used").executeTakeFirst();
-  return row ? row.used : null;
+  return (await take()) ?? null;
 }
 
 /** Add `delta` (negative to give back) to the month's counter; returns the counter after. */
 export async function adjustUnits(db: Db, q: { orgId: number; mode: KeyMode; month: string; delta: number }): Promise<number> {
+  const add = async () => (await counter(db, q).set({ used: sql`used + ${q.delta}` }).returning("used").executeTakeFirst())?.used;
+  const used = await add();
+  if (used !== undefined) return used;
   await ensureCounter(db, q.orgId, q.mode, q.month);
-  const row = await db
-    .updateTable("quota_counters")
-    .set({ used: sql`used + ${q.delta}` })
-    .where("org_id", "=", q.orgId)
-    .where("mode", "=", q.mode)
-    .where("period", "=", q.month)
-    .returning("used")
-    .executeTakeFirstOrThrow();
-  return row.used;
+  return (await add())!;
 }
 
 /** Record that the org was told about `threshold` percent this month: true the first time only. */
