@@ -121,7 +121,7 @@ function serveOne(env: Env & { setApiVersion(v: string | undefined): void }, sec
       env.setApiVersion(undefined);
     }
     if (method !== "GET") {
-      if (typeof key === "string") store.state.idempotency[key] = { method, path: url.pathname, body, status, payload, at_ms: now };
+      if (typeof key === "string") store.remember(key, { method, path: url.pathname, body, status, payload, at_ms: now });
       store.save();
       afterChange();
     }

@@ -1,11 +1,13 @@
 import { randomBytes } from "node:crypto";
-import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from "node:fs";
+import { appendFileSync, existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import { dirname } from "node:path";
 
 /**
  * The stand-in's whole state: every object it has made, the meter events it accepted, the webhook
- * queue and the idempotency records. It lives in one JSON file, rewritten after each change, so a
- * restart loses nothing. Fields whose names start with "_" are ours and never leave the stand-in.
+ * queue and the idempotency records. The objects live in one JSON file, rewritten after each change;
+ * the two collections that grow with every call (meter events and idempotency records) are appended
+ * to journals beside it instead, one JSON line each, so a change costs the same however many came
+ * before. A restart loses nothing. Fields whose names start with "_" are ours and never leave the stand-in.
  */
 
 export type Meta = Record<string, string>;
@@ -256,18 +258,52 @@ export function newId(kind: string): string {
   return `${kind}.${out}`;
 }
 
+const readJournal = <T>(file: string): T[] =>
+  existsSync(file)
+    ? readFileSync(file, "utf8")
+        .split("\n")
+        .filter((l) => l.trim())
+        .flatMap((l) => {
+          try {
+            return [JSON.parse(l) as T];
+          } catch {
+            return []; // a line cut short by a crash mid-append
+          }
+        })
+    : [];
+
 export class Store {
   readonly state: State;
+  private readonly meterJournal: string;
+  private readonly idempotencyJournal: string;
 
   constructor(readonly file: string) {
     this.state = existsSync(file) ? { ...emptyState(), ...(JSON.parse(readFileSync(file, "utf8")) as Partial<State>) } : emptyState();
+    this.meterJournal = `${file}.meter-events.jsonl`;
+    this.idempotencyJournal = `${file}.idempotency.jsonl`;
+    for (const e of readJournal<MeterEvent>(this.meterJournal)) this.state.meterEvents[e.identifier] = e;
+    for (const r of readJournal<{ key: string; record: IdempotencyRecord }>(this.idempotencyJournal)) this.state.idempotency[r.key] = r.record;
   }
 
-  /** Written aside and renamed, so a crash mid-write leaves the previous file whole. */
+  /** Accept a meter event: appended to its journal before it counts. */
+  addMeterEvent(e: MeterEvent): void {
+    mkdirSync(dirname(this.file), { recursive: true });
+    appendFileSync(this.meterJournal, JSON.stringify(e) + "\n");
+    this.state.meterEvents[e.identifier] = e;
+  }
+
+  /** Remember a request's answer under its Idempotency-Key: appended to its journal. */
+  remember(key: string, record: IdempotencyRecord): void {
+    mkdirSync(dirname(this.file), { recursive: true });
+    appendFileSync(this.idempotencyJournal, JSON.stringify({ key, record }) + "\n");
+    this.state.idempotency[key] = record;
+  }
+
+  /** The objects, written aside and renamed, so a crash mid-write leaves the previous file whole (the journals hold the rest). */
   save(): void {
     mkdirSync(dirname(this.file), { recursive: true });
     const tmp = `${this.file}.${process.pid}.tmp`;
-    writeFileSync(tmp, JSON.stringify(this.state));
+    writeFileSync(tmp, JSON.stringify({ ...this.state, meterEvents: {}, idempotency: {} }));
     renameSync(tmp, this.file);
   }
 }

@@ -64,7 +64,7 @@ export function billingStandInForThisFile(opts: { webhooks?: boolean } = {}): Bi
     for (const k of ["PARITAS_BILLING_SECRET_KEY", "PARITAS_BILLING_HOST", "PARITAS_BILLING_PORT", "PARITAS_BILLING_PROTOCOL", "PARITAS_BILLING_WEBHOOK_SECRET"]) delete process.env[k];
     await h.standIn?.close();
     if (app) await new Promise<void>((ok) => (app!.closeAllConnections(), app!.close(() => ok())));
-    rmSync(stateFile, { force: true });
+    for (const f of [stateFile, `${stateFile}.meter-events.jsonl`, `${stateFile}.idempotency.jsonl`]) rmSync(f, { force: true });
   });
   return h;
 }

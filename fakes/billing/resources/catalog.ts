@@ -143,7 +143,7 @@ function createMeterEvent({ env, q }: Ctx) {
   }
   const now = unixNow();
   const timestamp = int(q, "timestamp") ?? now;
-  s.meterEvents[identifier] = { identifier, event_name: eventName, meter: meter.id, customer: customer.id, value: Number(raw), timestamp, created: now };
+  env.store.addMeterEvent({ identifier, event_name: eventName, meter: meter.id, customer: customer.id, value: Number(raw), timestamp, created: now });
   return { object: "billing.meter_event", created: now, event_name: eventName, identifier, livemode: false, payload, timestamp };
 }
 
