@@ -12,6 +12,7 @@ import { runCodecBench, runCrcBench } from "@/bench/codecs";
 import { heavyRequests, runPoolBench } from "@/bench/compute";
 import { runJobsBench } from "@/bench/jobs";
 import { runSimBench } from "@/bench/sim";
+import { runBillingBench } from "@/bench/billing";
 
 /**
  * HTTP benchmark on a production build over loopback: POST /api/v1/distance (auth, rate limit,
@@ -20,24 +21,30 @@ import { runSimBench } from "@/bench/sim";
  * First the block codecs and the CRC engines in process (bench/codecs.ts; PARITAS_BENCH_ONLY=codecs stops after them),
  * then the Monte Carlo engine in process (bench/sim.ts; PARITAS_BENCH_ONLY=sim runs only that),
  * then the worker pool's throughput with 1 and 2 threads (bench/compute.ts; PARITAS_BENCH_ONLY=compute runs only that),
- * then simulation jobs through the runner with 1 and 2 threads and a simulated claim's decision time (bench/jobs.ts; PARITAS_BENCH_ONLY=jobs);
+ * then simulation jobs through the runner with 1 and 2 threads and a simulated claim's decision time (bench/jobs.ts; PARITAS_BENCH_ONLY=jobs),
+ * then metering with quotas and the usage reporter's throughput (bench/billing.ts; PARITAS_BENCH_ONLY=billing);
  * over HTTP, last, a cheap call's latency alone and while every endpoint's heaviest allowed request runs.
  */
 const seconds = Number(process.env.PARITAS_BENCH_SECONDS ?? 10);
 
 const only = process.env.PARITAS_BENCH_ONLY;
-if (only !== "compute" && only !== "sim" && only !== "jobs") {
+if (only !== "compute" && only !== "sim" && only !== "jobs" && only !== "billing") {
   runCodecBench();
   runCrcBench();
 }
 if (only === "codecs") process.exit(0);
-if (only !== "compute" && only !== "jobs") runSimBench();
+if (only !== "compute" && only !== "jobs" && only !== "billing") runSimBench();
 if (only === "sim") process.exit(0);
+if (only === "billing") {
+  await runBillingBench();
+  process.exit(0);
+}
 spawnSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "inherit" });
 if (only !== "jobs") await runPoolBench();
 if (only === "compute") process.exit(0);
 await runJobsBench();
 if (only === "jobs") process.exit(0);
+await runBillingBench();
 
 async function freePort(): Promise<number> {
   return new Promise((resolve) => {
@@ -56,8 +63,9 @@ if (process.env.PARITAS_BENCH_SKIP_BUILD !== "1") {
 const dbFile = join(tmpdir(), `paritas-bench-${process.pid}.db`);
 process.env.PARITAS_DB_FILE = dbFile;
 const db = await getDb();
-const org = await insertOrg(db, { slug: "bench", name: "Bench" });
-const { key } = await createKey(db, { orgId: org.id, name: "bench", mode: "test", scopes: allScopes }, "bench");
+// A live key on the largest plan: live keys on a paid plan never stop at the allowance, so every call is served and metered.
+const org = await insertOrg(db, { slug: "bench", name: "Bench", plan: "lighthouse" });
+const { key } = await createKey(db, { orgId: org.id, name: "bench", mode: "live", scopes: allScopes }, "bench");
 await closeDb();
 
 const port = await freePort();
