@@ -4,6 +4,7 @@
  * in this process; the counts are checked against lib/core/sim run directly with the same seed, and the uncoded BSC
  * BER against its exact value p inside a 99 % Clopper–Pearson interval (Clopper & Pearson 1934, scipy-checked helper).
  */
+import { setOrgPlan } from "@/db/queries/billing";
 import { describe, expect, it, vi } from "vitest";
 import { engineRules, simulatorFor } from "@/lib/api/simulation-spec";
 import { runPoint } from "@/lib/core/sim/run";
@@ -65,8 +66,10 @@ describe("a simulation started from the console", () => {
     expect(jobs.map((j) => j.id).sort()).toEqual([fx.simulations.queued, fx.simulations.done].sort());
   });
 
-  it("the org's job limit holds for the console too (429 job-limit)", async () => {
+  it("the plan's job limit holds for the console too (429 job-limit)", async () => {
     const fx = await makeConsoleOrg();
+    // Beacon: 4 jobs at once (the fixture's org is on Lighthouse, which allows 8).
+    await setOrgPlan(fx.db, fx.org.id, "beacon");
     const base = `/api/console/orgs/${fx.org.slug}/simulations`;
     // The fixture has one queued; a runner may take them, so slow ones (10^12 bits) are queued until the limit answers.
     const slow = { channel: { type: "bsc" }, points: [0.5], stop: { maxBits: 1e12 }, gapSkipping: false, seed: 2 };
@@ -77,7 +80,7 @@ describe("a simulation started from the console", () => {
       if (last.status !== 202) break;
       started.push(last.body.simulation.id);
     }
-    expectProblem(last!, 429, "job-limit");
+    expect(expectProblem(last!, 429, "job-limit").detail).toMatch(/Beacon plan allows 4 at once/);
     for (const id of started) await consoleCall("DELETE", `${base}/${id}`, { cookie: fx.owner.cookie });
   });
 

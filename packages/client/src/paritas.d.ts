@@ -259,7 +259,7 @@ export interface paths {
         put?: never;
         /**
          * Start a seeded Monte Carlo simulation of bit and frame error rates
-         * @description A sweep of up to 16 operating points of a code (or none) on a BSC, BEC or AWGN channel (BPSK or Gray QPSK, hard or soft decisions), each run in chunks until one of its stopping rules holds. It runs as a job: the answer is 202 with Location; read it with GET /simulations/{id}, follow it with GET /simulations/{id}/events, cancel it with DELETE. The same request and seed give the same counts. Limits: 16 points, 2^40 information bits and 3600 s per point, 4 jobs queued or running per organisation (429 job-limit). Cost: 1 unit to start, and when the job ends 1 unit per started 2^26 (67,108,864) simulated information bits, charged for the chunks run (a cancelled job too).
+         * @description A sweep of up to 16 operating points of a code (or none) on a BSC, BEC or AWGN channel (BPSK or Gray QPSK, hard or soft decisions), each run in chunks until one of its stopping rules holds. It runs as a job: the answer is 202 with Location; read it with GET /simulations/{id}, follow it with GET /simulations/{id}/events, cancel it with DELETE. The same request and seed give the same counts. Limits: 16 points, 2^40 information bits and 3600 s per point; per plan, the information bits one job may ask for (summed over points) and the jobs queued or running at once: Lantern 2^36 bits and 1 job, Beacon 2^40 bits and 4 jobs, Lighthouse 2^44 bits and 8 jobs (422 work-limit, 429 job-limit). Cost: 1 unit to start, and when the job ends 1 unit per started 2^26 (67,108,864) simulated information bits, charged for the chunks run (a cancelled job too). The units the job could cost at most are held from the monthly allowance while it runs (402 quota-exhausted when they do not fit), and what it did not use is given back when it ends.
          *
          *     Scope: `claims`.
          */
@@ -494,6 +494,24 @@ export interface components {
                 requested?: number;
                 allowed: number;
                 unit: string;
+            };
+            /** @description In a quota-exhausted problem: where the key's allowance stands. */
+            quota?: {
+                /** @description The organisation's plan. */
+                plan: string;
+                /**
+                 * @description Which allowance: live and test keys have their own.
+                 * @enum {string}
+                 */
+                mode: "live" | "test";
+                /** @description Compute units a month. */
+                allowance: number;
+                /** @description Used so far this month, including units held by running jobs. */
+                used: number;
+                /** @description What the refused call needed. */
+                requested: number;
+                /** @description When the allowance renews: the start of the next calendar month, UTC. */
+                resetsAt: string;
             };
         };
         AnalyzeRequest: {
@@ -1522,6 +1540,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -1539,6 +1565,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1556,6 +1590,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -1565,6 +1622,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1580,6 +1645,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1595,6 +1668,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1610,6 +1691,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1635,6 +1724,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1650,6 +1747,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -1667,6 +1772,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -1703,6 +1816,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -1720,6 +1841,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1737,6 +1866,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -1746,6 +1898,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1761,6 +1921,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1776,6 +1944,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1791,6 +1967,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1816,6 +2000,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1831,6 +2023,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -1848,6 +2048,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -1884,6 +2092,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -1901,6 +2117,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1918,6 +2142,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -1927,6 +2174,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1942,6 +2197,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1957,6 +2220,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1972,6 +2243,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -1997,6 +2276,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2012,6 +2299,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2029,6 +2324,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2065,6 +2368,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2082,6 +2393,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2099,6 +2418,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -2108,6 +2450,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2123,6 +2473,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2138,6 +2496,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2153,6 +2519,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2178,6 +2552,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2193,6 +2575,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2210,6 +2600,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2246,6 +2644,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2263,6 +2669,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2280,6 +2694,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -2289,6 +2726,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2304,6 +2749,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2319,6 +2772,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2334,6 +2795,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2359,6 +2828,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2374,6 +2851,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2391,6 +2876,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2427,6 +2920,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2444,6 +2945,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2461,6 +2970,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -2470,6 +3002,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2485,6 +3025,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2500,6 +3048,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2515,6 +3071,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2540,6 +3104,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2555,6 +3127,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2572,6 +3152,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2608,6 +3196,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2625,6 +3221,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2642,6 +3246,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -2651,6 +3278,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2666,6 +3301,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2681,6 +3324,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2696,6 +3347,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2721,6 +3380,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2736,6 +3403,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2753,6 +3428,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2789,6 +3472,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2806,6 +3497,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2823,6 +3522,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -2832,6 +3554,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2847,6 +3577,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2862,6 +3600,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2877,6 +3623,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2902,6 +3656,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -2917,6 +3679,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2934,6 +3704,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -2971,6 +3749,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -2999,6 +3785,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3014,6 +3808,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3029,6 +3831,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3065,6 +3875,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     /** @description Where the resource is read from now on. */
@@ -3084,6 +3902,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     /** @description Where the resource is read from now on. */
@@ -3103,6 +3929,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3120,6 +3954,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -3129,6 +3986,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3144,6 +4009,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3159,6 +4032,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3174,6 +4055,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3195,6 +4084,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3214,6 +4111,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3231,6 +4136,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3262,6 +4175,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -3290,6 +4211,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3305,6 +4234,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3320,6 +4257,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3335,6 +4280,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3368,6 +4321,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -3396,6 +4357,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3411,6 +4380,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3426,6 +4403,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3462,6 +4447,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     /** @description Where the resource is read from now on. */
@@ -3481,6 +4474,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3498,6 +4499,29 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
+            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            402: {
+                headers: {
+                    /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
+                    RateLimit?: string;
+                    /** @description Requests per 60-second window for this key. */
+                    "RateLimit-Policy"?: string;
+                    /** @description Identifies this request in logs and usage rows. */
+                    "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/problem+json": components["schemas"]["Problem"];
+                };
+            };
             /** @description The key may not do this. The key lacks the scope this operation needs. Create a key with that scope. */
             403: {
                 headers: {
@@ -3507,6 +4531,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3522,6 +4554,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3537,6 +4577,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3552,6 +4600,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3573,6 +4629,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3592,6 +4656,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3609,6 +4681,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3640,6 +4720,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -3668,6 +4756,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3683,6 +4779,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3698,6 +4802,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3713,6 +4825,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3744,6 +4864,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -3761,6 +4889,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     /** @description Where the resource is read from now on. */
@@ -3791,6 +4927,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3806,6 +4950,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3821,6 +4973,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3836,6 +4996,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3867,6 +5035,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -3895,6 +5071,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3910,6 +5094,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3925,6 +5117,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -3940,6 +5140,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
@@ -3977,6 +5185,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Compute units charged for this call. */
                     "X-Compute-Units"?: number;
                     [name: string]: unknown;
@@ -4005,6 +5221,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -4020,6 +5244,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     [name: string]: unknown;
                 };
                 content: {
@@ -4035,6 +5267,14 @@ export interface operations {
                     "RateLimit-Policy"?: string;
                     /** @description Identifies this request in logs and usage rows. */
                     "X-Request-Id"?: string;
+                    /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
+                    "Units-Allowance"?: number;
+                    /** @description Units used this month after this call, including units held by running jobs. */
+                    "Units-Used"?: number;
+                    /** @description Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop). */
+                    "Units-Remaining"?: number;
+                    /** @description When the allowance renews: the start of the next calendar month, UTC (ISO 8601). */
+                    "Units-Reset"?: string;
                     /** @description Seconds to wait (RFC 9110). */
                     "Retry-After"?: number;
                     [name: string]: unknown;
