@@ -40,7 +40,6 @@ const billingEnv = {
   PARITAS_BILLING_PROTOCOL: "http",
   PARITAS_BILLING_WEBHOOK_SECRET: secrets.webhook,
 };
-await seedDemoBilling(db, clientFor({ secretKey: secrets.apiKey, host: "127.0.0.1", port: standIn.port, protocol: "http" }), (await findOrgById(db, orgId))!);
 await closeDb();
 
 if (process.env.PARITAS_DEMO_SKIP_BUILD !== "1") {
@@ -138,14 +137,16 @@ the usage reporter sends live usage to it, and last month's invoice appears on t
 usage is in. Test cards on its payment page: 4242 4242 4242 4242 pays, 4000 0000 0000 0002 is declined.
 `);
 
-// Last month closes into an invoice once its usage has reached the stand-in (the reporter sends it within seconds).
+// The demo org's subscription since last month is made once the seeded usage has reached the stand-in (the reporter
+// sends it within seconds), so that last month, which has ended, closes at once into an invoice that holds its usage.
 void (async () => {
-  for (let i = 0; i < 60; i++) {
-    const db = await getDb();
+  const db = await getDb();
+  for (let i = 0; i < 120; i++) {
     const left = await db.selectFrom("usage_events").select((eb) => eb.fn.countAll<number>().as("n")).where("reported_at", "is", null).where("mode", "=", "live").where("units", ">", 0).executeTakeFirstOrThrow();
     if (Number(left.n) === 0) break;
     await new Promise((r) => setTimeout(r, 1000));
   }
+  await seedDemoBilling(db, clientFor({ secretKey: secrets.apiKey, host: "127.0.0.1", port: standIn.port, protocol: "http" }), (await findOrgById(db, orgId))!);
   await fetch(`${standIn.url}/_stand-in/close-due`, { method: "POST", headers: { authorization: `Bearer ${secrets.apiKey}` } }).catch(() => undefined);
   await closeDb();
-})();
+})().catch((e: unknown) => console.error("setting up the demo's subscription failed", e));

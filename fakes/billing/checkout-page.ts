@@ -12,7 +12,7 @@ function describe(price: Price): string {
   if (price.billing_scheme === "tiered") {
     let below = 0;
     const parts = (price.tiers ?? []).map((t) => {
-      const range = t.up_to === null ? `above ${below}` : `${below + 1}–${t.up_to}`;
+      const range = t.up_to === null ? `above ${below.toLocaleString("en-US")}` : `${(below + 1).toLocaleString("en-US")}–${t.up_to.toLocaleString("en-US")}`;
       below = t.up_to ?? below;
       return `units ${range}: ${t.unit_amount === 0 ? "included" : `${money(t.unit_amount, price.currency)} each`}`;
     });

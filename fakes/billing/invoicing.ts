@@ -40,6 +40,14 @@ function line(price: Price, amount: number, quantity: number, description: strin
  * Graduated pricing: each tier prices only the units that fall inside it, so a usage reaching
  * tier k gives k lines (the first tier always, even at zero usage, so the meter shows on the invoice).
  */
+const count = (n: number) => n.toLocaleString("en-US");
+
+/** An amount in minor units as people read it: "$0.02" in dollars, else "2 minor units of EUR". */
+function money(minor: number, currency: string): string {
+  if (currency !== "usd") return `${count(minor)} minor units of ${currency.toUpperCase()}`;
+  return `$${count(Math.floor(minor / 100))}.${String(minor % 100).padStart(2, "0")}`;
+}
+
 function tierLines(store: Store, price: Price, used: number, start: number, end: number): InvoiceLine[] {
   const name = price.nickname ?? store.state.products[price.product]?.name ?? "Usage";
   const lines: InvoiceLine[] = [];
@@ -48,8 +56,8 @@ function tierLines(store: Store, price: Price, used: number, start: number, end:
     const top = tier.up_to ?? Infinity;
     const quantity = Math.max(0, Math.min(used, top) - below);
     if (quantity === 0 && lines.length > 0) break;
-    const range = tier.up_to === null ? `above ${below}` : `${below + 1}–${tier.up_to}`;
-    const rate = tier.unit_amount === 0 && !tier.flat_amount ? "included" : `at ${tier.unit_amount} each${tier.flat_amount ? ` + ${tier.flat_amount} flat` : ""}`;
+    const range = tier.up_to === null ? `above ${count(below)}` : `${count(below + 1)}–${count(tier.up_to)}`;
+    const rate = tier.unit_amount === 0 && !tier.flat_amount ? "included" : `at ${money(tier.unit_amount, price.currency)} each${tier.flat_amount ? ` + ${money(tier.flat_amount, price.currency)} flat` : ""}`;
     const flat = quantity > 0 ? (tier.flat_amount ?? 0) : 0;
     lines.push(line(price, quantity * tier.unit_amount + flat, quantity, `${name}, units ${range} (${rate})`, start, end));
     below = top;
@@ -65,11 +73,11 @@ function itemLines(store: Store, sub: Subscription, start: number, end: number, 
     if (price.recurring.usage_type === "metered") {
       const used = price.recurring.meter ? meterTotal(store, price.recurring.meter, sub.customer, start, end) : 0;
       if (price.billing_scheme === "tiered") lines.push(...tierLines(store, price, used, start, end));
-      else lines.push(line(price, used * (price.unit_amount ?? 0), used, `${price.nickname ?? "Usage"} (${used} × ${price.unit_amount})`, start, end));
+      else lines.push(line(price, used * (price.unit_amount ?? 0), used, `${price.nickname ?? "Usage"} (${count(used)} × ${money(price.unit_amount ?? 0, price.currency)})`, start, end));
     } else if (!meteredOnly) {
       const quantity = item.quantity ?? 1;
       const name = price.nickname ?? store.state.products[price.product]?.name ?? "Subscription";
-      lines.push(line(price, quantity * (price.unit_amount ?? 0), quantity, `${name} (${quantity} × ${price.unit_amount})`, start, end));
+      lines.push(line(price, quantity * (price.unit_amount ?? 0), quantity, `${name} (${count(quantity)} × ${money(price.unit_amount ?? 0, price.currency)})`, start, end));
     }
   }
   return lines;
