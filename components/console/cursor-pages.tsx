@@ -16,7 +16,7 @@ export function useCursorPages() {
   };
 }
 
-/** "Page n", what else the list says about itself, and Newer / Older buttons under a cursor-paginated list. */
+/** "Page n", what else the list says about itself, and Newer / Older buttons under a cursor-paginated list of more than one page. */
 export function CursorPager({
   pages,
   nextCursor,
@@ -34,6 +34,8 @@ export function CursorPager({
   summary?: ReactNode;
   className?: string;
 }) {
+  // A list that fits on one page needs no pager: only what it says about itself, if anything.
+  if (pages.page === 0 && !nextCursor) return summary ? <p className={className}>{typeof summary === "string" ? summary.replace(/^ · /, "") : summary}</p> : null;
   return (
     <div className={className}>
       <p aria-live="polite">
