@@ -106,7 +106,9 @@ async function reconcileSubscription(db: Db, stripe: Stripe, sub: Stripe.Subscri
         }
         replaced = current.subscription_id;
       }
-      await updateBillingAccount(tx, org.id, { subscription_id: sub.id, subscription_status: sub.status, ...card, updated_at: iso(new Date()) });
+      // A new subscription paid through checkout settles a failed payment of the one it replaces (which is cancelled).
+      const fresh = current.subscription_id !== sub.id && sub.status === "active" ? { payment_failed_at: null, grace_until: null } : {};
+      await updateBillingAccount(tx, org.id, { subscription_id: sub.id, subscription_status: sub.status, ...card, ...fresh, updated_at: iso(new Date()) });
       await changePlan(tx, org, planId, "checkout", out);
     } else if (current.subscription_id === sub.id) {
       await updateBillingAccount(tx, org.id, { subscription_id: null, subscription_status: sub.status, payment_failed_at: null, grace_until: null, updated_at: iso(new Date()) });

@@ -211,6 +211,24 @@ describe("a failed payment", () => {
   });
 });
 
+describe("a new card through checkout during the grace period", () => {
+  it("choosing the same plan again with a good card replaces the failing subscription and ends the grace period", async () => {
+    const fx = await freeOrg();
+    await payOnPage(await checkout(fx, "beacon"), "4000000000000341");
+    await until(() => planOf(fx), (p) => p === "beacon", 10_000);
+    const failing = (await findBillingAccount(fx.db, fx.org.id))!.subscription_id!;
+    await h.control(`subscriptions/${failing}/close-period`);
+    await until(() => findBillingAccount(fx.db, fx.org.id), (a) => a?.payment_failed_at != null, 10_000);
+
+    await payOnPage(await checkout(fx, "beacon"), "4242424242424242");
+    const account = await until(() => findBillingAccount(fx.db, fx.org.id), (a) => a?.subscription_id !== failing, 10_000);
+    expect(account).toMatchObject({ payment_failed_at: null, grace_until: null, card_last4: "4242" });
+    await until(async () => (await h.stripe.subscriptions.retrieve(failing)).status, (s) => s === "canceled", 5000);
+    expect(await sweepGrace(fx.db, h.stripe, new Date(Date.now() + (GRACE_DAYS + 1) * 86_400_000))).toBe(0);
+    expect(await planOf(fx)).toBe("beacon");
+  });
+});
+
 describe("moving to the free plan", () => {
   it("cancels the subscription at the provider, which invoices the month so far; the plan changes at once", async () => {
     const fx = await freeOrg();
