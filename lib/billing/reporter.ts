@@ -63,8 +63,13 @@ export async function reportUsageOnce(db: Db, stripe: Stripe, opts: { batch?: nu
 
 const sleep = (ms: number, signal: AbortSignal) =>
   new Promise<void>((resolve) => {
-    const t = setTimeout(resolve, ms);
-    signal.addEventListener("abort", () => (clearTimeout(t), resolve()), { once: true });
+    const done = () => {
+      clearTimeout(t);
+      signal.removeEventListener("abort", done);
+      resolve();
+    };
+    const t = setTimeout(done, ms);
+    signal.addEventListener("abort", done, { once: true });
   });
 
 /**

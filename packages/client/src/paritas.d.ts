@@ -1590,7 +1590,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -1866,7 +1866,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -2142,7 +2142,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -2418,7 +2418,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -2694,7 +2694,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -2970,7 +2970,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -3246,7 +3246,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -3522,7 +3522,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -3954,7 +3954,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
@@ -4499,7 +4499,7 @@ export interface operations {
                     "application/problem+json": components["schemas"]["Problem"];
                 };
             };
-            /** @description The monthly allowance is used up. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
+            /** @description Not enough compute units left this month. The call needs more compute units than the key's monthly allowance has left (`quota` says how many, and when it resets). Live keys on the free plan and all test keys stop at their allowance; paid plans bill live units beyond it. Wait for the reset, or move to a paid plan in the console. */
             402: {
                 headers: {
                     /** @description Requests left in the current window and seconds until it resets (IETF RateLimit header fields). */
