@@ -3,6 +3,7 @@ import { closeDb, getDb } from "@/db";
 import { findApiKeyByPrefix } from "@/db/queries/api-keys";
 import { findOrgBySlug } from "@/db/queries/orgs";
 import { createKey, keyState, listKeys, revokeKey } from "@/lib/api/key-service";
+import { isWellFormedKey, KEY_PATTERN, visiblePrefix } from "@/lib/api/keys";
 import { allScopes, parseScopes } from "@/lib/api/scopes";
 
 /** Operator commands for API keys. Every change writes an audit row (actor "cli"). */
@@ -88,6 +89,42 @@ program
       process.exit(2);
     }
     console.error(`revoked ${row.prefix}… (${row.name})`);
+  });
+
+/** The earlier `prt_<mode>_…` format, recognised so that its keys are reported with their format. */
+const LEGACY_SHAPE = /^prt_(live|test)_[0-9A-Za-z]{38}$/;
+
+/** One line about a candidate that never repeats it beyond its visible prefix, and whether it is a valid key. */
+function describeCandidate(candidate: string): { ok: boolean; line: string } {
+  const current = KEY_PATTERN.exec(candidate);
+  const legacy = current ? null : LEGACY_SHAPE.exec(candidate);
+  const shape = current ?? legacy;
+  if (!shape) return { ok: false, line: "not a Paritas key (wrong shape)" };
+  const ok = isWellFormedKey(candidate);
+  const format = current ? "prt1" : "legacy prt_";
+  return { ok, line: `${visiblePrefix(candidate)}… ${shape[1]} key, format ${format}, checksum ${ok ? "matches" : "does not match"}` };
+}
+
+async function readLines(): Promise<string[]> {
+  let text = "";
+  for await (const chunk of process.stdin) text += String(chunk);
+  return text.split(/\r?\n/).map((l) => l.trim()).filter(Boolean);
+}
+
+program
+  .command("check")
+  .description("tell offline whether a string is a well-formed Paritas key (mode, format, checksum); exit 0 if it is, 1 if not")
+  .argument("<key>", 'the candidate, or "-" to read candidates from stdin, one per line (exit 0 only if all are keys)')
+  .action(async (arg: string) => {
+    const candidates = arg === "-" ? await readLines() : [arg.trim()];
+    let allOk = candidates.length > 0;
+    candidates.forEach((c, i) => {
+      const { ok, line } = describeCandidate(c);
+      allOk &&= ok;
+      process.stdout.write((arg === "-" ? `line ${i + 1}: ` : "") + line + "\n");
+    });
+    if (!candidates.length) console.error("no candidates on stdin");
+    process.exitCode = allOk ? 0 : 1;
   });
 
 await program.parseAsync(process.argv);
