@@ -7,7 +7,7 @@ import { Reply, StreamReply, type Endpoint, type Method } from "./endpoint";
 import { ApiError, fieldErrorsFromZod, problemResponse, toPointer, validationProblem } from "./errors";
 import { beginIdempotent, finishIdempotent } from "./idempotency";
 import { meter } from "./metering";
-import { quotaHeaders, reserveQuota, type Reservation } from "./quota";
+import { afterRefusal, quotaHeaders, reserveQuota, type Reservation } from "./quota";
 import { replyJson } from "./pool-reply";
 import { consumeRate } from "./rate-limit";
 import { requestIdFor } from "./request-id";
@@ -103,6 +103,9 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
     } catch (err) {
       response = problemResponse(asProblem(err), requestId);
       for (const [k, v] of Object.entries(headers)) if (!response.headers.has(k)) response.headers.set(k, v);
+      if (db && principal && err instanceof ApiError && err.extra.quota) {
+        void afterRefusal(db, principal.orgId, err.extra.quota).catch((e: unknown) => console.error(`[${requestId}] allowance notice failed`, e));
+      }
     }
     if (db && principal) {
       try {
@@ -112,6 +115,8 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
         console.error(`[${requestId}] metering failed`, e);
       }
     }
+    // Every answer here was computed for one key (its account, its quota): no shared cache may keep it.
+    response.headers.set("cache-control", "no-store");
     return response;
   };
 

@@ -3,7 +3,7 @@ import { adjustUnits, monthKey, reserveUnits, unitsUsed } from "@/db/queries/quo
 import type { KeyMode } from "@/db/schema";
 import { announceAllowance } from "@/lib/billing/notices";
 import { allowanceOf, NOTICE_THRESHOLDS, periodOf, planOf, stopsAtAllowance, type Plan } from "@/lib/billing/plans";
-import { ApiError } from "./errors";
+import { ApiError, type QuotaInfo } from "./errors";
 
 /**
  * Monthly quotas by plan (lib/billing/plans.ts). Units are reserved from the month's counter before any work
@@ -86,6 +86,15 @@ export async function settleQuota(tx: Db, r: Reservation, charged: number, at = 
 export async function afterSettle(db: Db, s: QuotaState, orgId: number): Promise<void> {
   if (s.mode !== "live") return;
   await announceAllowance(db, { orgId, plan: s.plan, month: s.month, used: s.used, resetsAt: s.resetsAt, thresholds: NOTICE_THRESHOLDS });
+}
+
+/**
+ * After a live call was refused for want of units (on a plan that stops), outside any transaction: the 100 % notice,
+ * once a month, worded for a refusal short of the allowance.
+ */
+export async function afterRefusal(db: Db, orgId: number, q: QuotaInfo): Promise<void> {
+  if (q.mode !== "live") return;
+  await announceAllowance(db, { orgId, plan: planOf(q.plan), month: monthKey(new Date(Date.parse(q.resetsAt) - 1)), used: q.used, resetsAt: q.resetsAt, thresholds: [1], refused: true });
 }
 
 /** The allowance headers every authenticated response carries. */

@@ -21,6 +21,19 @@ export function noticeText(orgName: string, n: BillingNotice): { subject: string
   switch (n.kind) {
     case "allowance": {
       const pct = Math.round(n.threshold * 100);
+      if (n.threshold === 1 && n.used < n.plan.includedUnits) {
+        // Refused short of the allowance: the call needed more than the units left.
+        const left = n.plan.includedUnits - n.used;
+        return {
+          subject: `Paritas: ${orgName} has too few compute units left this month`,
+          text: [
+            `${orgName} has used ${units(n.used)} of the ${units(n.plan.includedUnits)} compute units its ${n.plan.name} plan includes this month, and a call that needed more than the ${units(left)} left was refused (402).`,
+            `Calls that fit in what is left still run; the allowance renews on ${day(n.resetsAt)}, or the organisation can move to a paid plan.`,
+            "",
+            "The console's Billing page shows the usage and a projection for the month.",
+          ].join("\n"),
+        };
+      }
       const after =
         n.plan.overagePerUnit === null
           ? `At 100 % calls with live keys are refused (402) until the allowance renews on ${day(n.resetsAt)}, unless the organisation moves to a paid plan.`
@@ -74,16 +87,17 @@ const announcedIn = new WeakMap<Db, Set<string>>();
 
 /**
  * After a live call: tell the owners and billing admins the first time this month the usage reaches 80 % and 100 %
- * of the plan's allowance. The notices table makes it once per org, month and threshold across processes; a mail
+ * of the plan's allowance (or, on a plan that stops, a call is refused for want of units: the 100 % notice, worded so). The notices table makes it once per org, month and threshold across processes; a mail
  * that could not be sent gives its row back so a later call tries again.
  */
-export async function announceAllowance(db: Db, q: { orgId: number; plan: Plan; month: string; used: number; resetsAt: string; thresholds: readonly number[] }): Promise<void> {
+export async function announceAllowance(db: Db, q: { orgId: number; plan: Plan; month: string; used: number; resetsAt: string; thresholds: readonly number[]; refused?: boolean }): Promise<void> {
   const announced = announcedIn.get(db) ?? new Set<string>();
   announcedIn.set(db, announced);
   for (const t of q.thresholds) {
     const pct = Math.round(t * 100);
     const memo = `${q.orgId}:${q.month}:${pct}`;
-    if (q.used < t * q.plan.includedUnits || announced.has(memo)) continue;
+    // A refusal on a plan that stops counts as reaching the allowance, though the units left were too few for the call.
+    if ((q.used < t * q.plan.includedUnits && !(q.refused && t === 1)) || announced.has(memo)) continue;
     if (!(await claimQuotaNotice(db, q.orgId, q.month, pct, new Date().toISOString()))) {
       announced.add(memo);
       continue;

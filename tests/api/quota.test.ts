@@ -3,7 +3,7 @@ import { describe, expect, it, vi } from "vitest";
 import { databaseFile, openDb, type Db } from "@/db";
 import { setOrgPlan } from "@/db/queries/billing";
 import { insertJob } from "@/db/queries/jobs";
-import { monthKey } from "@/db/queries/quota";
+import { claimQuotaNotice, monthKey } from "@/db/queries/quota";
 import { insertUsageEvent } from "@/db/queries/usage";
 import type { KeyMode } from "@/db/schema";
 import { createKey } from "@/lib/api/key-service";
@@ -297,6 +297,25 @@ describe("allowance e-mails", () => {
     expect(full.map((m) => m.to).sort()).toEqual(f.billingTo);
     expect(full[0]!.text).toMatch(/refused \(402\)/);
     expect(mails.filter((m) => pct(m) === "80").map((m) => m.to).sort()).toEqual(f.billingTo);
+  });
+
+  it("Lantern: a call refused short of the allowance sends the 100 % notice once, worded for what happened", async () => {
+    const f = await consoleOrgOn("lantern");
+    // The fixture's queued simulation would take Lantern's one job slot.
+    await f.db.updateTable("jobs").set({ status: "cancelled" }).where("org_id", "=", f.org.id).execute();
+    // 4,998 used (past 80 %, whose mail is not under test here); a call needing 3 units does not fit in the 2 left.
+    await seedLedger(f.db, f.org.id, "live", LANTERN.includedUnits - 2, f.keyId);
+    await claimQuotaNotice(f.db, f.org.id, month(), 80, new Date().toISOString());
+    const three = { channel: { type: "bsc" }, points: [0.1], stop: { maxBits: 3 * 2 ** 26 - 64 }, seed: 1 };
+    expectProblem(await postJson("/api/v1/simulations", three, f.auth), 402, "quota-exhausted");
+    const mails = await until(async () => f.mails(), (m) => m.length >= 3, 5_000);
+    expect(mails.map((m) => m.to).sort()).toEqual(f.billingTo);
+    expect(mails[0]!.subject).toBe(`Paritas: ${f.org.name} has too few compute units left this month`);
+    expect(mails[0]!.text).toContain(`${(LANTERN.includedUnits - 1).toLocaleString("en-US")} of the ${LANTERN.includedUnits.toLocaleString("en-US")}`);
+    // A second refusal sends nothing more this month.
+    expectProblem(await postJson("/api/v1/simulations", three, f.auth), 402, "quota-exhausted");
+    await new Promise((r) => setTimeout(r, 200));
+    expect(f.mails()).toHaveLength(3);
   });
 });
 
