@@ -225,7 +225,7 @@ function generate(registry: OpenAPIRegistry) {
       version: "1.0.0",
       description:
         "Channel-coding math as an API: distances and codebooks, BSC error probabilities, capacity and the Shannon limit, uncoded BER on AWGN.\n\n" +
-        "Authenticate with `Authorization: Bearer <key>`. Errors are RFC 9457 problem details (`application/problem+json`); validation failures list each field as a JSON pointer. " +
+        "Authenticate with `Authorization: Bearer <key>`, from a server or a CI job: the API sends no CORS headers, so a browser page on another origin cannot read its answers (call it through your own back end). Errors are RFC 9457 problem details (`application/problem+json`); validation failures list each field as a JSON pointer. " +
         `Every response carries \`X-Request-Id\` and the RateLimit header fields, and every authenticated one the monthly allowance (\`Units-Allowance\`, \`Units-Used\`, \`Units-Remaining\`, \`Units-Reset\`); bodies are limited to ${MAX_BODY_BYTES} bytes.\n\n` +
         `Plans (compute units per calendar month, UTC):\n\n${planTable()}\n\nA call that needs more units than the allowance has left is refused before any work with a 402 \`quota-exhausted\` problem where the plan stops at its allowance. A job holds the most units it can cost while it runs and gives back what it did not use.\n\nScopes:\n${scopes}\n\n${caution}`,
     },

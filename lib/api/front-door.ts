@@ -3,6 +3,7 @@ import type { Duplex } from "node:stream";
 import { ApiError, problemResponse } from "./errors";
 import { allowHeader, HANDLED_METHODS, matchApiRoute } from "./route-table";
 import { requestIdFrom } from "./request-id";
+import { withSecurityHeaders } from "./security-headers";
 
 /**
  * The front door of /api: what must be answered before Next.js sees a request, because Next.js cannot:
@@ -89,7 +90,7 @@ export function frontDoor(method: string, target: string): FrontDoorAnswer | nul
 }
 
 function problemFor(answer: FrontDoorAnswer, requestId: string): Response {
-  return problemResponse(new ApiError(answer.code, answer.detail, { headers: answer.allow ? { allow: answer.allow } : {} }), requestId);
+  return withSecurityHeaders(problemResponse(new ApiError(answer.code, answer.detail, { headers: answer.allow ? { allow: answer.allow } : {} }), requestId));
 }
 
 async function answerRequest(req: IncomingMessage, res: ServerResponse, answer: FrontDoorAnswer): Promise<void> {

@@ -3,6 +3,7 @@ import { ApiError, problemResponse } from "./errors";
 import { endpointRoute } from "./http";
 import { requestIdFor } from "./request-id";
 import { allowHeader, type HandledMethod, type ServedMethod } from "./route-table";
+import { withSecurityHeaders } from "./security-headers";
 
 /**
  * What a route module under app/api exports: a handler for each of the seven methods Next.js hands to
@@ -22,7 +23,8 @@ export function methods<R extends Request, C>(served: Partial<Record<ServedMetho
       requestIdFor(req),
     );
   const options: Handler<R, C> = (req) => new Response(null, { status: 204, headers: { allow, "x-request-id": requestIdFor(req) } });
-  return {
+  // No Access-Control-* header on any answer, OPTIONS included: the API grants browsers on other origins nothing (see README, "Security headers").
+  return secured({
     GET: served.GET ?? notAllowed,
     HEAD: served.GET ?? notAllowed,
     POST: served.POST ?? notAllowed,
@@ -30,7 +32,12 @@ export function methods<R extends Request, C>(served: Partial<Record<ServedMetho
     PATCH: served.PATCH ?? notAllowed,
     DELETE: served.DELETE ?? notAllowed,
     OPTIONS: options,
-  };
+  });
+}
+
+/** Every handler's answer with the security headers (lib/api/security-headers.ts). */
+function secured<R extends Request, C>(exports: RouteExports<R, C>): RouteExports<R, C> {
+  return Object.fromEntries(Object.entries(exports).map(([m, h]) => [m, async (req: R, ctx: C) => withSecurityHeaders(await h(req, ctx))])) as RouteExports<R, C>;
 }
 
 /** The exports of a public API route: its endpoints (one per method) through the HTTP machinery. */
@@ -42,7 +49,7 @@ const unknownPath: Handler<Request, unknown> = (req) =>
   problemResponse(new ApiError("not-found", `There is no endpoint ${new URL(req.url).pathname}. The API reference is at /docs.`), requestIdFor(req));
 
 /** The exports of the catch-all under /api: a 404 problem for every method, so no path under /api gets an HTML page. */
-export const noRoute: RouteExports<Request, unknown> = {
+export const noRoute: RouteExports<Request, unknown> = secured({
   GET: unknownPath,
   HEAD: unknownPath,
   POST: unknownPath,
@@ -50,4 +57,4 @@ export const noRoute: RouteExports<Request, unknown> = {
   PATCH: unknownPath,
   DELETE: unknownPath,
   OPTIONS: unknownPath,
-};
+});
