@@ -1,7 +1,9 @@
 import { randomBytes } from "node:crypto";
 import { createRequire } from "node:module";
 import { format } from "node:util";
+import type { AddressInfo } from "node:net";
 import { NextRequest } from "next/server";
+import { SMTPServer } from "smtp-server";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { GET, POST } from "@/app/api/auth/[...nextauth]/route";
 import { getDb, nowIso } from "@/db";
@@ -170,6 +172,43 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     secrets.set("console-made key", madeKey);
     answers.pop(); // the one answer meant to show the new key
     remember(await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/keys/${(JSON.parse(made.text) as { id: number }).id}/revoke`, { cookie }));
+  });
+
+  it("mail refused by the server: the reset and invitation failures are logged without their tokens", async () => {
+    // A mail server that reads each message and then refuses it, so the tokens are known to the test though no mail arrives.
+    const bodies: string[] = [];
+    const refusing = new SMTPServer({
+      authOptional: true,
+      disabledCommands: ["STARTTLS"],
+      logger: false,
+      onData(stream, _session, done) {
+        let text = "";
+        stream.on("data", (c: Buffer) => (text += c.toString("latin1")));
+        stream.on("end", () => (bodies.push(text), done(new Error("mailbox unavailable"))));
+      },
+    });
+    await new Promise<void>((ok) => refusing.listen(0, "127.0.0.1", ok));
+    const smtp = process.env.PARITAS_SMTP_URL;
+    process.env.PARITAS_SMTP_URL = `smtp://127.0.0.1:${(refusing.server.address() as AddressInfo).port}`;
+    try {
+      resetAuthLimits();
+      const email = `refused-${process.pid}@example.com`;
+      await insertAuthUser(await getDb(), { email, name: "Refused", passwordHash: await hashPassword(PASSWORD), emailVerified: nowIso() });
+      expect(remember(await postFromConsole("/api/console/auth/reset-request", { email })).status).toBe(202);
+      const invitee = `refused-invitee-${process.pid}@example.com`;
+      remember(await consoleCall("POST", `/api/console/orgs/${fx.org.slug}/invitations`, { cookie: fx.owner.cookie, body: { email: invitee, role: "developer" } }));
+      const logged = async () => bodies.length >= 2 && captured.some((l) => l.includes("reset link not sent")) && captured.some((l) => l.includes(`to ${invitee} failed`));
+      expect(await until(logged, Boolean, 10_000)).toBe(true);
+    } finally {
+      process.env.PARITAS_SMTP_URL = smtp;
+      await new Promise<void>((ok) => refusing.close(ok));
+    }
+    // Quoted-printable may fold a long link: unfold it before reading the tokens.
+    const unfolded = bodies.map((b) => b.replace(/=\r?\n/g, ""));
+    const reset = unfolded.join("\n").match(/\/reset\/([A-Za-z0-9_-]{20,})/)![1]!;
+    const invitation = unfolded.join("\n").match(/\/console\/invite\/([A-Za-z0-9_-]{20,})/)![1]!;
+    secrets.set("refused reset token", reset);
+    secrets.set("refused invitation token", invitation);
   });
 
   it("next-auth: a wrong password through the sign-in route, a sign-in link mailed, followed, and followed again", async () => {
