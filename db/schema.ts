@@ -19,6 +19,8 @@ export interface UserTable {
   /** bcrypt hash, null for users who only sign in by e-mail link. */
   password_hash: ColumnType<string | null, string | null | undefined, string | null>;
   email_verified: ColumnType<Timestamp | null, Timestamp | null | undefined, Timestamp | null>;
+  /** Written into each session token at sign-in; raising it ends every session issued before. */
+  session_epoch: ColumnType<number, number | undefined, number>;
 }
 
 export interface VerificationTokenTable {

@@ -6,6 +6,7 @@ import * as m0004 from "./0004_bench_credentials";
 import * as m0005 from "./0005_jobs";
 import * as m0006 from "./0006_claims";
 import * as m0007 from "./0007_billing";
+import * as m0008 from "./0008_session_epoch";
 
 /** Static list: Kysely's file-system provider cannot find migrations inside a Next.js build. */
 export const migrations: Record<string, Migration> = {
@@ -16,4 +17,5 @@ export const migrations: Record<string, Migration> = {
   "0005_jobs": m0005,
   "0006_claims": m0006,
   "0007_billing": m0007,
+  "0008_session_epoch": m0008,
 };

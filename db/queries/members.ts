@@ -1,9 +1,6 @@
 import type { Db } from "@/db";
 import type { Role } from "@/db/schema";
 
-export const findUserById = (db: Db, id: number) =>
-  db.selectFrom("users").select(["id", "email", "name"]).where("id", "=", id).executeTakeFirst();
-
 export const findUsersByIds = (db: Db, ids: number[]) =>
   ids.length === 0 ? Promise.resolve([]) : db.selectFrom("users").select(["id", "email", "name"]).where("id", "in", ids).execute();
 

@@ -1,6 +1,5 @@
 import { z } from "zod";
 import { getDb, type Db } from "@/db";
-import { findUserById } from "@/db/queries/members";
 import { findOrgBySlug } from "@/db/queries/orgs";
 import { findMembership } from "@/db/queries/users";
 import type { Org, Role } from "@/db/schema";
@@ -8,7 +7,7 @@ import { parseJsonBody, readBodyText } from "@/lib/api/body";
 import { requestIdFor } from "@/lib/api/http";
 import { ApiError, fieldErrorsFromZod, problemResponse, type FieldError } from "@/lib/api/errors";
 import type { Caller } from "@/lib/console/common";
-import { readSession } from "./session";
+import { readSession, renewalCookie } from "./session";
 
 /**
  * Console route plumbing: small wrappers, each doing one thing, nested from the outside in:
@@ -90,13 +89,18 @@ export function sameOrigin<C extends ConsoleCtx>(handler: Handler<C>): Handler<C
   };
 }
 
-/** The signed-in user, from the session cookie and then the database (a deleted user's session is no session). */
+/**
+ * The signed-in user, from the session cookie and then the database (a deleted user's session, or one
+ * ended by a password reset or a removal, is no session). Each use renews the cookie's idle deadline.
+ */
 export function withSession(handler: Handler<SessionCtx>): Handler<ConsoleCtx> {
   return async (req, ctx) => {
-    const session = await readSession(req);
-    const user = session ? await findUserById(ctx.db, session.userId) : undefined;
-    if (!user) throw new ApiError("signed-out", "Sign in to use the console.");
-    return handler(req, { ...ctx, user });
+    const session = await readSession(req, ctx.db);
+    if (!session) throw new ApiError("signed-out", "Sign in to use the console.");
+    const res = await handler(req, { ...ctx, user: { id: session.userId, email: session.email, name: session.name } });
+    const renewed = await renewalCookie(session.token);
+    if (renewed) res.headers.append("set-cookie", renewed);
+    return res;
   };
 }
 

@@ -2,13 +2,14 @@ import type { NextAuthOptions, User } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import EmailProvider from "next-auth/providers/email";
 import { getDb } from "@/db";
+import { findSessionUser } from "@/db/queries/sessions";
 import { findUserByEmail } from "@/db/queries/users";
 import { mailFrom, sendMail } from "@/lib/mail/send";
 import { signInLinkMail } from "@/lib/mail/templates";
 import { kyselyAdapter, SIGN_IN_LINK_SECONDS } from "./adapter";
 import { clearLoginFailures, clientIp, loginLocked, recordLoginFailure, take } from "./brute-force";
 import { verifyPassword } from "./passwords";
-import { authSecret } from "./session";
+import { authSecret, secureCookies, SESSION_LIFETIME_SECONDS } from "./session-token";
 
 /** The error code /signin shows when password sign-in is paused after too many failures. */
 export const LOCKED = "locked";
@@ -55,7 +56,16 @@ export function authOptions(): NextAuthOptions {
   return {
     secret: authSecret(),
     adapter: kyselyAdapter(getDb),
-    session: { strategy: "jwt", maxAge: 24 * 60 * 60 },
+    // Lifetime counted from sign-in; the idle timeout and the epoch are checked in lib/auth/session.ts.
+    session: { strategy: "jwt", maxAge: SESSION_LIFETIME_SECONDS },
+    useSecureCookies: secureCookies(),
+    cookies: {
+      // Lax, not Strict: a link into the console from a mail or another site must arrive signed in.
+      sessionToken: {
+        name: `${secureCookies() ? "__Secure-" : ""}next-auth.session-token`,
+        options: { httpOnly: true, sameSite: "lax", path: "/", secure: secureCookies() },
+      },
+    },
     pages: { signIn: "/signin", verifyRequest: "/signin/check-mail", error: "/signin" },
     providers: [
       EmailProvider({ from: mailFrom(), maxAge: SIGN_IN_LINK_SECONDS, sendVerificationRequest: sendSignInLink }),
@@ -68,11 +78,13 @@ export function authOptions(): NextAuthOptions {
     callbacks: {
       // Links on request are rationed per address (a refusal shows as AccessDenied on /signin).
       signIn: async ({ user, email }) => (email?.verificationRequest ? take("link:address", user.email?.toLowerCase() ?? "") : true),
-      // lib/auth/session.ts reads sub (the user id) and email from this token.
+      // lib/auth/session-token.ts reads sub (the user id), email, epoch and signedInAt from this token.
       jwt: async ({ token, user }) => {
         if (user) {
           token.sub = String(user.id);
           token.email = user.email;
+          token.epoch = (await findSessionUser(await getDb(), Number(user.id)))?.session_epoch ?? 0;
+          token.signedInAt = Math.floor(Date.now() / 1000);
         }
         return token;
       },

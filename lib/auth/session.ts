@@ -1,48 +1,28 @@
-import { decode, encode } from "next-auth/jwt";
+import type { Db } from "@/db";
+import { findSessionUser } from "@/db/queries/sessions";
+import { readSessionToken, type SessionToken, type SessionUser } from "./session-token";
 
-/** Cookie names next-auth uses for its JWT session (the __Secure- one over HTTPS). */
-export const SESSION_COOKIES = ["__Secure-next-auth.session-token", "next-auth.session-token"] as const;
+export { authSecret, renewalCookie, SESSION_COOKIES, SESSION_IDLE_SECONDS, SESSION_LIFETIME_SECONDS, sessionCookie } from "./session-token";
+export type { SessionToken, SessionUser } from "./session-token";
 
-/** PARITAS_AUTH_SECRET signs sessions; development and tests fall back to a fixed value, production must set it. */
-export function authSecret(): string {
-  const s = process.env.PARITAS_AUTH_SECRET ?? process.env.NEXTAUTH_SECRET;
-  if (s) return s;
-  if (process.env.NODE_ENV === "production") throw new Error("PARITAS_AUTH_SECRET must be set in production");
-  return "paritas-development-secret-not-for-production";
+export interface Session extends SessionUser {
+  /** Null when only the token was checked (no database given). */
+  name: string | null;
+  token: SessionToken;
 }
 
-function cookieValue(header: string | null, name: string): string | undefined {
-  for (const part of header?.split(";") ?? []) {
-    const i = part.indexOf("=");
-    if (i > 0 && part.slice(0, i).trim() === name) return decodeURIComponent(part.slice(i + 1).trim());
-  }
-  return undefined;
-}
-
-export interface SessionUser {
-  userId: number;
-  email: string;
-}
-
-/** The signed-in user of a request, from next-auth's JWT session cookie; null when there is none or it is invalid. */
-export async function readSession(req: Request): Promise<SessionUser | null> {
-  const header = req.headers.get("cookie");
-  for (const name of SESSION_COOKIES) {
-    const token = cookieValue(header, name);
-    if (!token) continue;
-    try {
-      const jwt = await decode({ token, secret: authSecret() });
-      const userId = Number(jwt?.sub);
-      if (jwt && Number.isInteger(userId) && userId > 0 && typeof jwt.email === "string") return { userId, email: jwt.email };
-    } catch {
-      return null;
-    }
-  }
-  return null;
-}
-
-/** A session cookie for a user, as next-auth would set it (tests and scripts). */
-export async function sessionCookie(user: SessionUser, maxAgeSeconds = 3600): Promise<string> {
-  const token = await encode({ token: { sub: String(user.userId), email: user.email }, secret: authSecret(), maxAge: maxAgeSeconds });
-  return `next-auth.session-token=${token}`;
+/**
+ * The signed-in user of a request: a valid, unexpired, not idle session token (session-token.ts)
+ * whose epoch is still the user's — a password reset or a removal raises it, ending older sessions.
+ * With `db` (every console route and page) that costs one primary-key lookup and a user who no
+ * longer exists has no session; without it (proxy.ts, which must not open the database) only the
+ * token is checked, and the page's data routes check the rest.
+ */
+export async function readSession(req: Request, db?: Db): Promise<Session | null> {
+  const token = await readSessionToken(req);
+  if (!token) return null;
+  if (!db) return { userId: token.userId, email: token.email, name: null, token };
+  const user = await findSessionUser(db, token.userId);
+  if (!user || user.session_epoch !== token.epoch) return null;
+  return { userId: user.id, email: user.email, name: user.name, token };
 }

@@ -3,6 +3,7 @@ import { inTransaction, type Db } from "@/db";
 import { insertAudit } from "@/db/queries/audit";
 import { listPendingInvitations } from "@/db/queries/invitations";
 import { countOwners, deleteMember, findMember, listMembers, setMemberRole, type MemberRow } from "@/db/queries/members";
+import { bumpSessionEpoch } from "@/db/queries/sessions";
 import type { Org, Role } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { actorOf, invalidField, type Caller } from "./common";
@@ -77,6 +78,8 @@ export async function removeMember(db: Db, org: Org, caller: Caller, userId: num
     const target = await requireMember(tx, org, userId);
     if (target.role === "owner") await keepAnOwner(tx, org, leaving ? "Leaving as the last owner" : "Removing the last owner");
     await deleteMember(tx, org.id, userId);
+    // A removed person's open sessions end (they may be on a device the org no longer trusts); leaving keeps one's own.
+    if (!leaving) await bumpSessionEpoch(tx, userId);
     await endBenchCredential(tx, org, userId);
     await insertAudit(tx, {
       orgId: org.id,

@@ -62,7 +62,8 @@ describe("members list and role changes", () => {
     const res = await remove(fx.org, fx.owner, fx.spare.id);
     expect(res.status, res.text).toBe(200);
     expect(res.body.member.userId).toBe(fx.spare.id);
-    expectProblem(await consoleCall("GET", `/api/console/orgs/${fx.org.slug}/members`, { cookie: fx.spare.cookie }), 404, "not-found");
+    // A removal also ends the removed person's sessions (tests/auth/sessions-end.test.ts).
+    expectProblem(await consoleCall("GET", `/api/console/orgs/${fx.org.slug}/members`, { cookie: fx.spare.cookie }), 401, "signed-out");
     const removed = (await listAudit(fx.db, fx.org.id)).filter((a) => a.action === "member.removed");
     expect(removed).toMatchObject([{ actor: `user:${fx.owner.id}`, target_id: String(fx.spare.id) }]);
     expect(JSON.parse(removed[0]!.details)).toMatchObject({ role: "developer", left: false });

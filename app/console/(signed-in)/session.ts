@@ -1,4 +1,5 @@
 import { cookies } from "next/headers";
+import { getDb } from "@/db";
 import { readSession, type SessionUser } from "@/lib/auth/session";
 
 /**
@@ -12,5 +13,5 @@ export async function pageSession(): Promise<SessionUser | null> {
     .getAll()
     .map((c) => `${c.name}=${encodeURIComponent(c.value)}`)
     .join("; ");
-  return readSession(new Request("http://console.invalid/", { headers: { cookie: header } }));
+  return readSession(new Request("http://console.invalid/", { headers: { cookie: header } }), await getDb());
 }

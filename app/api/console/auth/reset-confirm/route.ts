@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { inTransaction } from "@/db";
 import { deleteVerificationTokens, setPassword, takeVerificationToken } from "@/db/queries/auth";
+import { bumpSessionEpoch } from "@/db/queries/sessions";
 import { findUserByEmail } from "@/db/queries/users";
 import { ApiError } from "@/lib/api/errors";
 import { methods } from "@/lib/api/methods";
@@ -10,7 +11,7 @@ import { hashPassword, passwordSchema } from "@/lib/auth/passwords";
 
 const resetConfirm = z.strictObject({ token: z.string().min(1).max(200), password: passwordSchema });
 
-/** POST /api/console/auth/reset-confirm {token, password} → 200; the link works once. */
+/** POST /api/console/auth/reset-confirm {token, password} → 200 and every session of the account ended; the link works once. */
 const confirmReset = consoleRoute(
   sameOrigin(async (req, { db }) => {
     const input = await readJson(req, resetConfirm);
@@ -21,6 +22,8 @@ const confirmReset = consoleRoute(
       const user = link && (await findUserByEmail(tx, link.identifier));
       if (!link || !user) return false;
       await setPassword(tx, user.id, passwordHash);
+      // Every session of the account ends, this browser's too: whoever knew the old password is out, and all sign in with the new one.
+      await bumpSessionEpoch(tx, user.id);
       // Any older links for the address stop working with this one.
       await deleteVerificationTokens(tx, link.identifier, "password-reset");
       return true;
