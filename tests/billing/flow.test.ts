@@ -10,6 +10,9 @@ import { until } from "../helpers/jobs";
 
 vi.mock(import("@/lib/mail/send"), async (orig) => ({ ...(await orig()), sendMail: vi.fn(async () => {}) }));
 
+// Each test waits on webhooks delivered over loopback; on a loaded CI machine they can take seconds.
+vi.setConfig({ testTimeout: 60_000 });
+
 /**
  * Plan changes end to end: the console starts a checkout, the person pays on the stand-in's page, the stand-in
  * sends its signed events to /api/webhooks/billing on a real local port, and the plan changes. Then repeated,

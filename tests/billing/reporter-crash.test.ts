@@ -68,5 +68,5 @@ describe("a reporter killed mid-batch", () => {
     }
     // Test-key usage never reaches the provider.
     expect(Number((await db.selectFrom("usage_events").select((eb) => eb.fn.countAll<number>().as("n")).where("mode", "=", "test").where("reported_at", "is not", null).executeTakeFirstOrThrow()).n)).toBe(0);
-  });
+  }, 180_000);
 });

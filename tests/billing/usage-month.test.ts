@@ -94,5 +94,5 @@ describe("a month of usage across several keys", () => {
     const csv = await consoleCall("GET", `${base}/${invoice!.id}/document?format=csv`, { cookie: fx.billing.cookie });
     const dollars = `${Math.floor(invoice!.total / 100)}.${String(invoice!.total % 100).padStart(2, "0")}`;
     expect(csv.text).toContain(dollars);
-  });
+  }, 120_000);
 });
