@@ -1,4 +1,7 @@
-import { randomBytes } from "node:crypto";
+import { randomBytes, randomUUID } from "node:crypto";
+import { rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import { createRequire } from "node:module";
 import { format } from "node:util";
 import type { AddressInfo } from "node:net";
@@ -82,6 +85,7 @@ const remember = <T extends { text: string }>(res: T): T => (answers.push(res.te
 let mailbox: Awaited<ReturnType<typeof startMailbox>>;
 let fx: ConsoleFixture;
 let standIn: FakeBilling;
+const standInState = join(tmpdir(), `paritas-secrets-${randomUUID()}.json`);
 
 beforeAll(async () => {
   for (const m of ["log", "info", "warn", "error", "debug"] as const) vi.spyOn(console, m).mockImplementation((...a: unknown[]) => void captured.push(format(...a)));
@@ -109,6 +113,7 @@ afterAll(async () => {
   delete process.env.PARITAS_BILLING_WEBHOOK_SECRET;
   delete process.env.PARITAS_BILLING_SECRET_KEY;
   await standIn?.close();
+  for (const f of [standInState, `${standInState}.meter-events.jsonl`, `${standInState}.idempotency.jsonl`]) rmSync(f, { force: true });
   await mailbox?.stop();
   vi.restoreAllMocks();
 });
@@ -245,7 +250,7 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
       expect(res.status).toBe(400);
     }
     // The stand-in knows another key, so every call the reporter makes is refused.
-    standIn = await startFakeBilling({ port: 0, stateFile: `/tmp/paritas-secrets-${process.pid}.json`, secretKey: secret("other"), webhookSecret: secret("other-wh"), closeDelayMs: 1e9, retryBaseMs: 50 });
+    standIn = await startFakeBilling({ port: 0, stateFile: standInState, secretKey: secret("other"), webhookSecret: secret("other-wh"), closeDelayMs: 1e9, retryBaseMs: 50 });
     const stripe = clientFor({ secretKey: BILLING_KEY, host: "127.0.0.1", port: standIn.port, protocol: "http" } as Parameters<typeof clientFor>[0]);
     const stop = new AbortController();
     const lines: string[] = [];
