@@ -137,6 +137,10 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     }
     expect(remember(await postJson("/api/v1/distance", { a: key, b: "1001" }, `Bearer ${key}`)).status).toBe(422);
     expect(remember(await postJson("/api/v1/distance", { [key]: 1 }, `Bearer ${key}`)).status).toBe(422);
+    // A key of the earlier format, as a caller might paste it into a field name.
+    const legacy = `prt_live_${randomBody(38)}`;
+    secrets.set("legacy-format key", legacy);
+    expect(remember(await postJson("/api/v1/distance", { [legacy]: 1 }, `Bearer ${key}`)).text).toContain("prt_live_");
     expect(remember(await postJson("/api/v1/distance", `{"a": ${key}}`, `Bearer ${key}`)).status).toBe(400);
     expect(remember(await postJson("/api/v1/distance", { a: "1", b: "0" }, `Bearer ${key}`, { "idempotency-key": key })).status).toBe(200);
     vi.mocked(consumeRate).mockRejectedValueOnce(new Error("the rate store is unreachable"));
