@@ -44,6 +44,9 @@ export const viewport: Viewport = {
   ],
 };
 
+// Every page is rendered per request: its scripts carry the nonce of that request's Content-Security-Policy (proxy.ts).
+export const dynamic = "force-dynamic";
+
 export default function RootLayout({ children }: { children: ReactNode }) {
   return (
     <html lang="en" className={`${plexSans.variable} ${plexMono.variable}`}>

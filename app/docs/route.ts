@@ -1,5 +1,7 @@
+import { createHash } from "node:crypto";
 import { ApiReference } from "@scalar/nextjs-api-reference";
 import { markDataUri } from "@/components/mark";
+import { baseSecurityHeaders, docsCsp } from "@/lib/api/security-headers";
 
 /*
  * The interactive API reference over the generated OpenAPI document.
@@ -10,6 +12,9 @@ import { markDataUri } from "@/components/mark";
  * default web fonts, telemetry, the developer toolbar (its share button uploads the document),
  * the hosted assistant, and the "open in hosted client" button. No proxyUrl is set, so "try it"
  * requests go straight to this origin.
+ *
+ * The page is the same for every visitor, so its policy allows its inline start-up script by hash
+ * (a route handler gets no nonce from Next.js) and the script file by 'self'.
  */
 
 const fontFaces = [
@@ -130,7 +135,7 @@ a[href^="https://github.com/scalar"],
 .dark-mode :focus-visible { outline-color: #8fa6ff; }
 `;
 
-export const GET = ApiReference({
+const reference = ApiReference({
   url: "/api/v1/openapi.json",
   cdn: "/vendor/scalar/standalone.js",
   pageTitle: "API reference · Paritas",
@@ -149,3 +154,18 @@ export const GET = ApiReference({
   documentDownloadType: "json",
   defaultHttpClient: { targetKey: "shell", clientKey: "curl" },
 });
+
+/** SHA-256 (base64) of each inline script, as CSP's hash-source has it. */
+const inlineHashes = (html: string) =>
+  [...html.matchAll(/<script(?![^>]*\bsrc=)[^>]*>([\s\S]*?)<\/script>/g)].map((m) => createHash("sha256").update(m[1]!).digest("base64"));
+
+const built = (async () => {
+  const page = reference();
+  const html = await page.text();
+  return { html, headers: { ...Object.fromEntries(page.headers), "content-security-policy": docsCsp(inlineHashes(html)) } };
+})();
+
+export async function GET(): Promise<Response> {
+  const { html, headers } = await built;
+  return new Response(html, { headers: { ...headers, ...baseSecurityHeaders() } });
+}

@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { testCards } from "./cards";
 import type { Price, Session, Store } from "./state";
 
@@ -21,16 +22,34 @@ function describe(price: Price): string {
   return `${money(price.unit_amount ?? 0, price.currency)} a month`;
 }
 
-function shell(title: string, body: string): string {
-  return `<!doctype html>
-<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${esc(title)}</title>
-<style>
+const STYLE = `
 body{font-family:system-ui,sans-serif;max-width:32rem;margin:2rem auto;padding:0 1rem;line-height:1.5;color:#1d2433}
 label{display:block;margin-top:.75rem}input{font:inherit;padding:.35rem;width:100%;box-sizing:border-box}
 button{font:inherit;margin-top:1rem;padding:.5rem 1.5rem}#payment-error{color:#a01818;border:1px solid #a01818;padding:.5rem}
 .note{font-size:.9rem;color:#4a5468}
-</style></head><body>
+`;
+const STYLE_HASH = createHash("sha256").update(STYLE).digest("base64");
+
+/**
+ * The payment pages' policy: nothing loads (no script at all), the one style block by hash, never framed. The
+ * card form posts to this server, which answers a good card with a redirect to the merchant's success URL;
+ * browsers hold that redirect to form-action too, so its origin is allowed beside 'self'.
+ */
+export function pageSecurityHeaders(session?: Session): Record<string, string> {
+  const back = session ? ` ${new URL(session.success_url).origin}` : "";
+  return {
+    "content-security-policy": `default-src 'none'; style-src 'sha256-${STYLE_HASH}'; img-src 'self'; form-action 'self'${back}; base-uri 'none'; frame-ancestors 'none'`,
+    "x-content-type-options": "nosniff",
+    "referrer-policy": "no-referrer",
+    "x-frame-options": "DENY",
+  };
+}
+
+function shell(title: string, body: string): string {
+  return `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${esc(title)}</title>
+<style>${STYLE}</style></head><body>
 <h1>Local billing stand-in — test payment</h1>
 ${body}
 </body></html>`;

@@ -1,6 +1,7 @@
 import type { IncomingMessage, ServerResponse } from "node:http";
 import qs from "qs";
 import { ApiError, expand, Page, strings, type Ctx, type Route } from "./objects";
+import { pageSecurityHeaders } from "./checkout-page";
 import { catalogRoutes } from "./resources/catalog";
 import { checkoutRoutes } from "./resources/checkout";
 import { customerRoutes } from "./resources/customers";
@@ -109,7 +110,8 @@ function serveOne(env: Env & { setApiVersion(v: string | undefined): void }, sec
           store.save();
           afterChange();
         }
-        res.writeHead(out.status, out.location ? { location: out.location } : { "content-type": "text/html; charset=utf-8" });
+        const page = out.location ? { location: out.location } : { "content-type": "text/html; charset=utf-8" };
+        res.writeHead(out.status, { ...page, ...pageSecurityHeaders(params.id ? store.state.sessions[params.id] : undefined) });
         return res.end(out.html);
       }
       payload = expand(store, JSON.parse(JSON.stringify(out)), strings(ctx.q, "expand"));

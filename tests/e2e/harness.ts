@@ -45,7 +45,7 @@ const CHROMIUM_ARGS = [
 ];
 
 /** What the production build is made from; a file newer than .next/BUILD_ID means the build is stale. */
-const BUILD_INPUTS = ["app", "components", "lib", "db", "migrations", "openapi", "fakes", "public", "instrumentation.ts", "next.config.ts", "postcss.config.mjs", "tsconfig.json", "package.json", "package-lock.json"];
+const BUILD_INPUTS = ["app", "components", "lib", "db", "migrations", "openapi", "fakes", "public", "instrumentation.ts", "instrumentation-client.ts", "proxy.ts", "next.config.ts", "postcss.config.mjs", "tsconfig.json", "package.json", "package-lock.json"];
 
 function newestMtime(path: string): number {
   if (!existsSync(path)) return 0;
@@ -126,6 +126,8 @@ export interface Session {
   pageErrors: string[];
   /** console.error lines (reported, not failed on: React logs some of them on purpose). */
   consoleErrors: string[];
+  /** Content Security Policy violations, from the console and from `securitypolicyviolation` events; any one fails the session. */
+  cspViolations: string[];
   /** The session cookie header of this context, for calling console routes from the test. */
   cookieHeader(): Promise<string>;
   /** Close the context; throws if a request left the loopback host or a page threw. */
@@ -283,6 +285,15 @@ export async function startE2E(): Promise<E2E> {
     const offHost: string[] = [];
     const pageErrors: string[] = [];
     const consoleErrors: string[] = [];
+    const cspViolations: string[] = [];
+    // Chromium logs most refusals to the console, but not every one (a blocked inline style attribute, say); the event sees them all.
+    await context.exposeBinding("__paritasCspViolation", ({ page }, text: string) => void cspViolations.push(`${page.url()}: ${text}`));
+    await context.addInitScript(() => {
+      document.addEventListener("securitypolicyviolation", (e) => {
+        const report = (window as unknown as { __paritasCspViolation(text: string): void }).__paritasCspViolation;
+        report(`${e.disposition} ${e.effectiveDirective}: ${e.blockedURI || "inline"} (${e.sourceFile || "?"}:${e.lineNumber})`);
+      });
+    });
     const watch = (page: Page) => {
       page.on("request", (req) => {
         const url = req.url();
@@ -295,7 +306,8 @@ export async function startE2E(): Promise<E2E> {
       });
       page.on("pageerror", (err) => pageErrors.push(`${page.url()}: ${err.message}`));
       page.on("console", (msg) => {
-        if (msg.type() === "error") consoleErrors.push(`${page.url()}: ${msg.text()}`);
+        if (/violates the following Content Security Policy directive/.test(msg.text())) cspViolations.push(`${page.url()}: ${msg.text()}`);
+        else if (msg.type() === "error") consoleErrors.push(`${page.url()}: ${msg.text()}`);
       });
       page.on("response", (res) => {
         // Failed loads, for the report next to the console errors (several are expected refusals: 401, 403).
@@ -310,6 +322,7 @@ export async function startE2E(): Promise<E2E> {
       offHost,
       pageErrors,
       consoleErrors,
+      cspViolations,
       async cookieHeader() {
         return (await context.cookies(baseUrl)).map((c) => `${c.name}=${c.value}`).join("; ");
       },
@@ -318,6 +331,7 @@ export async function startE2E(): Promise<E2E> {
         if (consoleErrors.length) console.warn(`e2e: console errors:\n  ${consoleErrors.join("\n  ")}`);
         if (offHost.length) throw new Error(`requests left 127.0.0.1:\n  ${offHost.join("\n  ")}`);
         if (pageErrors.length) throw new Error(`uncaught errors in the page:\n  ${pageErrors.join("\n  ")}`);
+        if (cspViolations.length) throw new Error(`Content Security Policy violations:\n  ${cspViolations.join("\n  ")}`);
       },
     };
   }
