@@ -207,13 +207,16 @@ function addQueryExamples(document: ReturnType<typeof generate>): void {
   }
 }
 
-/** The plan catalogue as a Markdown table for the reference's introduction. */
-function planTable(): string {
-  const rows = PLAN_IDS.map((id) => PLANS[id]).map(
-    (p) =>
-      `| ${p.name} | ${p.monthlyFee ? formatMoney(p.monthlyFee) : "free"} | ${p.includedUnits.toLocaleString("en-US")} | ${p.overagePerUnit === null ? "stops at the allowance" : `${formatMoney(p.overagePerUnit)} a unit`} | ${p.testUnits.toLocaleString("en-US")} | 2^${Math.log2(p.maxBitsPerJob)} bits, ${p.maxActiveJobs} at once |`,
-  );
-  return ["| plan | a month | live units included | beyond | test-key units | simulation jobs |", "|---|---|---|---|---|---|", ...rows].join("\n");
+/** The plan catalogue as a Markdown list for the reference's introduction (a six-column table is too wide for its text column). */
+function planList(): string {
+  return PLAN_IDS.map((id) => PLANS[id])
+    .map((p) => {
+      const n = (x: number) => x.toLocaleString("en-US");
+      const fee = p.monthlyFee ? `${formatMoney(p.monthlyFee)} a month` : "free";
+      const beyond = p.overagePerUnit === null ? "calls stop at the allowance" : `then ${formatMoney(p.overagePerUnit)} a unit`;
+      return `- **${p.name}** (${fee}): ${n(p.includedUnits)} live units, ${beyond}; ${n(p.testUnits)} test-key units; simulations of up to 2^${Math.log2(p.maxBitsPerJob)} bits each, ${p.maxActiveJobs} at once.`;
+    })
+    .join("\n");
 }
 
 function generate(registry: OpenAPIRegistry) {
@@ -227,7 +230,7 @@ function generate(registry: OpenAPIRegistry) {
         "Channel-coding math as an API: distances and codebooks, BSC error probabilities, capacity and the Shannon limit, uncoded BER on AWGN.\n\n" +
         "Authenticate with `Authorization: Bearer <key>`, from a server or a CI job: the API sends no CORS headers, so a browser page on another origin cannot read its answers (call it through your own back end). Errors are RFC 9457 problem details (`application/problem+json`); validation failures list each field as a JSON pointer. " +
         `Every response carries \`X-Request-Id\` and the RateLimit header fields, and every authenticated one the monthly allowance (\`Units-Allowance\`, \`Units-Used\`, \`Units-Remaining\`, \`Units-Reset\`); bodies are limited to ${MAX_BODY_BYTES} bytes.\n\n` +
-        `Plans (compute units per calendar month, UTC):\n\n${planTable()}\n\nA call that needs more units than the allowance has left is refused before any work with a 402 \`quota-exhausted\` problem where the plan stops at its allowance. A job holds the most units it can cost while it runs and gives back what it did not use.\n\nScopes:\n${scopes}\n\n${caution}`,
+        `Plans (compute units per calendar month, UTC):\n\n${planList()}\n\nA call that needs more units than the allowance has left is refused before any work with a 402 \`quota-exhausted\` problem where the plan stops at its allowance. A job holds the most units it can cost while it runs and gives back what it did not use.\n\nScopes:\n${scopes}\n\n${caution}`,
     },
     servers: [{ url: "/api/v1" }],
   });
