@@ -2,13 +2,10 @@ import { randomBytes, randomUUID } from "node:crypto";
 import { rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { createRequire } from "node:module";
 import { format } from "node:util";
 import type { AddressInfo } from "node:net";
-import { NextRequest } from "next/server";
 import { SMTPServer } from "smtp-server";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { GET, POST } from "@/app/api/auth/[...nextauth]/route";
 import { getDb, nowIso } from "@/db";
 import { insertAuthUser } from "@/db/queries/auth";
 import { startFakeBilling, type FakeBilling } from "@/fakes/billing";
@@ -25,6 +22,7 @@ import { runJobs } from "@/lib/jobs/runner";
 import { jobKinds } from "@/lib/jobs/simulation-kind";
 import { getQuery, postJson } from "../helpers/api";
 import { linksIn, ORIGIN, postFromConsole, startMailbox } from "../auth/helpers";
+import { NextAuthBrowser } from "../auth/nextauth-browser";
 import { consoleCall, makeConsoleOrg, type ConsoleFixture } from "../helpers/console";
 import { makeOrgWithKey } from "../helpers/fixtures";
 import { finished, until } from "../helpers/jobs";
@@ -35,33 +33,8 @@ vi.mock(import("@/lib/api/rate-limit"), async (orig) => {
   return { ...m, consumeRate: vi.fn(m.consumeRate) };
 });
 
-// next-auth's route outside Next.js: headers() and cookies() answer from the request being handled (as in tests/auth/nextauth-flow.test.ts).
-const nextHeaders = createRequire(import.meta.url)("next/headers") as { headers: () => unknown; cookies: () => unknown };
-let current: NextRequest | undefined;
-vi.spyOn(nextHeaders, "headers").mockImplementation(async () => new Headers(current?.headers));
-vi.spyOn(nextHeaders, "cookies").mockImplementation(async () => ({ getAll: () => current?.cookies.getAll() ?? [] }));
-
-/** A browser's cookie jar on next-auth's route handler. */
-class Browser {
-  jar = new Map<string, string>();
-  async call(method: "GET" | "POST", url: string, form?: Record<string, string>): Promise<Response> {
-    const headers = new Headers({ host: "localhost", cookie: [...this.jar].map(([k, v]) => `${k}=${v}`).join("; ") });
-    if (form) headers.set("content-type", "application/x-www-form-urlencoded");
-    current = new NextRequest(new URL(url, ORIGIN), { method, headers, body: form ? new URLSearchParams(form).toString() : undefined });
-    const nextauth = current.nextUrl.pathname.replace(/^\/api\/auth\//, "").split("/");
-    const res = await (method === "GET" ? GET : POST)(current, { params: Promise.resolve({ nextauth }) });
-    for (const c of res.headers.getSetCookie()) {
-      const [pair] = c.split(";");
-      const i = pair!.indexOf("=");
-      this.jar.set(pair!.slice(0, i), pair!.slice(i + 1));
-    }
-    answers.push(await res.clone().text(), res.headers.get("location") ?? "");
-    return res;
-  }
-  async csrf(): Promise<string> {
-    return ((await (await this.call("GET", "/api/auth/csrf")).json()) as { csrfToken: string }).csrfToken;
-  }
-}
+/** A browser on next-auth's route whose every answer (body and Location) is kept in `answers` for the search. */
+const newBrowser = () => new NextAuthBrowser(async (res) => void answers.push(await res.clone().text(), res.headers.get("location") ?? ""));
 
 /**
  * Every secret sent through every path that logs or stores something: then none of them may appear in what the
@@ -224,7 +197,7 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     resetAuthLimits();
     const email = `keeper-${process.pid}@example.com`;
     await insertAuthUser(await getDb(), { email, name: "Keeper", passwordHash: await hashPassword(PASSWORD), emailVerified: nowIso() });
-    const b = new Browser();
+    const b = newBrowser();
     await b.call("POST", "/api/auth/callback/credentials", { email, password: WRONG_PASSWORD, csrfToken: await b.csrf(), json: "true" });
     expect(await b.call("GET", "/api/auth/session").then((r) => r.json())).toEqual({});
     await b.call("POST", "/api/auth/callback/credentials", { email, password: PASSWORD, csrfToken: await b.csrf(), json: "true" });
@@ -233,14 +206,14 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     secrets.set("next-auth session cookie", session![1]);
 
     const linkFor = `link-${process.pid}@example.com`;
-    const c = new Browser();
+    const c = newBrowser();
     const asked = await c.call("POST", "/api/auth/signin/email", { email: linkFor, csrfToken: await c.csrf(), callbackUrl: "/console", json: "true" });
     await c.call("GET", ((await asked.json()) as { url: string }).url);
     const mail = await until(async () => (await readMailbox(mailbox.dir)).find((m) => m.to === linkFor), Boolean, 10_000);
     const link = linksIn(mail!.text).find((l) => l.includes("/api/auth/callback/email"))!;
     mailed.set("sign-in token", new URL(link).searchParams.get("token")!);
     expect((await c.call("GET", link)).status).toBe(302);
-    const again = await new Browser().call("GET", link);
+    const again = await newBrowser().call("GET", link);
     expect(again.headers.get("location")).toMatch(/error=Verification/);
     const [cookieName, cookieValue] = [...c.jar].find(([k]) => k.includes("session-token"))!;
     expect(cookieName).toBeTruthy();

@@ -1,25 +1,14 @@
-import { createRequire } from "node:module";
-import { NextRequest } from "next/server";
-import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
-import { GET, POST } from "@/app/api/auth/[...nextauth]/route";
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { getDb, nowIso } from "@/db";
 import { insertAuthUser } from "@/db/queries/auth";
 import { findUserByEmail } from "@/db/queries/users";
 import { readMailbox, waitForMessage } from "@/fakes/mailbox";
 import { resetAuthLimits } from "@/lib/auth/brute-force";
 import { hashPassword } from "@/lib/auth/passwords";
-import { readSession } from "@/lib/auth/session";
 import { linksIn, ORIGIN, postFromConsole, startMailbox } from "./helpers";
+import { NextAuthBrowser } from "./nextauth-browser";
 
-/**
- * next-auth's real route handler, end to end. Outside Next.js there is no request scope for
- * next/headers, so headers() and cookies() are answered from the request being handled.
- */
-const nextHeaders = createRequire(import.meta.url)("next/headers") as { headers: () => unknown; cookies: () => unknown };
-let current: NextRequest;
-vi.spyOn(nextHeaders, "headers").mockImplementation(async () => new Headers(current.headers));
-vi.spyOn(nextHeaders, "cookies").mockImplementation(async () => ({ getAll: () => current.cookies.getAll() }));
-
+/** next-auth's real route handler, end to end (tests/auth/nextauth-browser.ts answers next/headers from the request). */
 let mailbox: Awaited<ReturnType<typeof startMailbox>>;
 beforeAll(async () => {
   mailbox = await startMailbox();
@@ -31,32 +20,10 @@ afterAll(async () => {
 });
 beforeEach(() => resetAuthLimits());
 
-/** A browser's cookie jar, enough for next-auth's CSRF and session cookies. */
-class Browser {
-  jar = new Map<string, string>();
-  async call(method: "GET" | "POST", url: string, form?: Record<string, string>): Promise<Response> {
-    const headers = new Headers({ host: "localhost", cookie: [...this.jar].map(([k, v]) => `${k}=${v}`).join("; ") });
-    if (form) headers.set("content-type", "application/x-www-form-urlencoded");
-    current = new NextRequest(new URL(url, ORIGIN), { method, headers, body: form ? new URLSearchParams(form).toString() : undefined });
-    const nextauth = current.nextUrl.pathname.replace(/^\/api\/auth\//, "").split("/");
-    const res = await (method === "GET" ? GET : POST)(current, { params: Promise.resolve({ nextauth }) });
-    for (const c of res.headers.getSetCookie()) {
-      const [pair] = c.split(";");
-      const i = pair!.indexOf("=");
-      this.jar.set(pair!.slice(0, i), pair!.slice(i + 1));
-    }
-    return res;
-  }
-  async csrf(): Promise<string> {
-    return ((await (await this.call("GET", "/api/auth/csrf")).json()) as { csrfToken: string }).csrfToken;
-  }
-  session = () => readSession(new Request(ORIGIN, { headers: { cookie: [...this.jar].map(([k, v]) => `${k}=${v}`).join("; ") } }));
-}
-
 describe("next-auth e-mail sign-in through the route handler", () => {
   it("a link for a new address creates the user, signs in once, and the session carries id and e-mail", async () => {
     const email = "first.visit@example.com";
-    const b = new Browser();
+    const b = new NextAuthBrowser();
     const since = new Date();
     const asked = await b.call("POST", "/api/auth/signin/email", { email, csrfToken: await b.csrf(), callbackUrl: "/console", json: "true" });
     const next = ((await asked.json()) as { url: string }).url;
@@ -76,7 +43,7 @@ describe("next-auth e-mail sign-in through the route handler", () => {
     expect(user.email_verified).not.toBeNull();
     expect(await b.session()).toMatchObject({ userId: user.id, email, token: { epoch: 0 } });
 
-    const stranger = new Browser();
+    const stranger = new NextAuthBrowser();
     const again = await stranger.call("GET", link);
     expect((await stranger.call("GET", again.headers.get("location")!)).headers.get("location")).toBe("/signin?error=Verification");
     expect(await stranger.session()).toBeNull();
@@ -84,7 +51,7 @@ describe("next-auth e-mail sign-in through the route handler", () => {
 
   it("after 5 links in 15 minutes for one address, the next request is refused (AccessDenied) and nothing is sent", async () => {
     const email = "eager@example.com";
-    const b = new Browser();
+    const b = new NextAuthBrowser();
     for (let i = 0; i < 5; i++) await b.call("POST", "/api/auth/signin/email", { email, csrfToken: await b.csrf(), json: "true" });
     const refused = await b.call("POST", "/api/auth/signin/email", { email, csrfToken: await b.csrf(), json: "true" });
     const next = ((await refused.json()) as { url: string }).url;
@@ -99,7 +66,7 @@ describe("next-auth password sign-in through the route handler", () => {
     const email = "password.user@example.com";
     const password = "a decent passphrase";
     const user = await insertAuthUser(await getDb(), { email, name: "P. User", passwordHash: await hashPassword(password), emailVerified: nowIso() });
-    const b = new Browser();
+    const b = new NextAuthBrowser();
     const tryPassword = async (pw: string) => {
       const res = await b.call("POST", "/api/auth/callback/credentials", { email, password: pw, csrfToken: await b.csrf(), json: "true" });
       return new URL(((await res.json()) as { url: string }).url).searchParams.get("error");
@@ -120,7 +87,7 @@ describe("sign-up, then the e-mail link, then the password", () => {
     const email = "newcomer@example.com";
     const password = "chosen at sign-up";
     expect((await postFromConsole("/api/console/auth/signup", { name: "New Comer", email, password })).status).toBe(202);
-    const b = new Browser();
+    const b = new NextAuthBrowser();
     const signInWithPassword = async () => {
       const res = await b.call("POST", "/api/auth/callback/credentials", { email, password, csrfToken: await b.csrf(), json: "true" });
       return new URL(((await res.json()) as { url: string }).url).searchParams.get("error");
@@ -131,7 +98,7 @@ describe("sign-up, then the e-mail link, then the password", () => {
     const since = new Date();
     await b.call("POST", "/api/auth/signin/email", { email, csrfToken: await b.csrf(), callbackUrl: "/console", json: "true" });
     const link = linksIn((await waitForMessage(mailbox.dir, email, { since })).text).find((l) => l.includes("/api/auth/callback/email"))!;
-    await new Browser().call("GET", link);
+    await new NextAuthBrowser().call("GET", link);
 
     expect(await signInWithPassword()).toBeNull();
     expect(await b.session()).toMatchObject({ email });
