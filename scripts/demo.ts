@@ -9,6 +9,7 @@ import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS, seedDemo } from "@/db/seed/demo";
 import { startFakeSmtp } from "@/fakes/smtp";
 import { startFakeBilling } from "@/fakes/billing";
 import { seedDemoBilling } from "@/db/seed/demo-billing";
+import { unreportedUsage } from "@/db/queries/billing";
 import { findOrgById } from "@/db/queries/orgs";
 import { clientFor } from "@/lib/billing/provider";
 
@@ -142,8 +143,7 @@ usage is in. Test cards on its payment page: 4242 4242 4242 4242 pays, 4000 0000
 void (async () => {
   const db = await getDb();
   for (let i = 0; i < 120; i++) {
-    const left = await db.selectFrom("usage_events").select((eb) => eb.fn.countAll<number>().as("n")).where("reported_at", "is", null).where("mode", "=", "live").where("units", ">", 0).executeTakeFirstOrThrow();
-    if (Number(left.n) === 0) break;
+    if ((await unreportedUsage(db, 1)).length === 0) break;
     await new Promise((r) => setTimeout(r, 1000));
   }
   await seedDemoBilling(db, clientFor({ secretKey: secrets.apiKey, host: "127.0.0.1", port: standIn.port, protocol: "http" }), (await findOrgById(db, orgId))!);

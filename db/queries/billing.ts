@@ -1,4 +1,3 @@
-import { sql } from "kysely";
 import type { Db } from "@/db";
 import type { BillingAccount } from "@/db/schema";
 
@@ -25,7 +24,8 @@ export async function recordBillingEvent(db: Db, e: { id: string; type: string; 
   return Number(r.numInsertedOrUpdatedRows ?? 0) > 0;
 }
 
-export const billingEventSeen = async (db: Db, id: string) => Boolean(await db.selectFrom("billing_events").select("event_id").where("event_id", "=", id).executeTakeFirst());
+/** What processing a provider event did, if it was processed already. */
+export const billingEventOutcome = async (db: Db, id: string) => (await db.selectFrom("billing_events").select("outcome").where("event_id", "=", id).executeTakeFirst())?.outcome;
 
 /** Accounts whose grace period after a failed payment has passed. */
 export const graceExpired = (db: Db, now: string) => db.selectFrom("billing_accounts").selectAll().where("grace_until", "is not", null).where("grace_until", "<=", now).execute();
@@ -43,16 +43,3 @@ export const unreportedUsage = (db: Db, limit: number) =>
     .execute();
 
 export const markUsageReported = (db: Db, id: number, at: string) => db.updateTable("usage_events").set({ reported_at: at }).where("id", "=", id).where("reported_at", "is", null).execute();
-
-/** Live units of an org in [from, to) from the ledger, and how many of them the provider has accepted. */
-export async function ledgerUnits(db: Db, orgId: number, from: string, to: string): Promise<{ units: number; reported: number }> {
-  const row = await db
-    .selectFrom("usage_events")
-    .select([sql<number>`coalesce(sum(units), 0)`.as("units"), sql<number>`coalesce(sum(case when reported_at is not null then units else 0 end), 0)`.as("reported")])
-    .where("org_id", "=", orgId)
-    .where("mode", "=", "live")
-    .where("created_at", ">=", from)
-    .where("created_at", "<", to)
-    .executeTakeFirstOrThrow();
-  return { units: Number(row.units), reported: Number(row.reported) };
-}

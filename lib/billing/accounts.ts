@@ -1,7 +1,7 @@
 import type Stripe from "stripe";
 import { inTransaction, type Db } from "@/db";
 import { insertAudit } from "@/db/queries/audit";
-import { findAccountByCustomer, findBillingAccount, graceExpired, insertBillingAccount, recordBillingEvent, setOrgPlan, updateBillingAccount, type AccountChange } from "@/db/queries/billing";
+import { billingEventOutcome, findAccountByCustomer, findBillingAccount, graceExpired, insertBillingAccount, recordBillingEvent, setOrgPlan, updateBillingAccount, type AccountChange } from "@/db/queries/billing";
 import { listBillingEmails } from "@/db/queries/members";
 import { findOrgById } from "@/db/queries/orgs";
 import type { BillingAccount, Org } from "@/db/schema";
@@ -157,23 +157,13 @@ async function reconcileInvoice(db: Db, inv: Stripe.Invoice, now: Date, out: Out
   });
 }
 
-/** The provider event types acted on; every other type is acknowledged and recorded. */
-export const HANDLED_EVENTS = [
-  "checkout.session.completed",
-  "customer.subscription.created",
-  "customer.subscription.updated",
-  "customer.subscription.deleted",
-  "invoice.paid",
-  "invoice.payment_failed",
-] as const;
-
 /**
  * Process one verified provider event, once: a repeated delivery (the event id already recorded) is acknowledged
  * and changes nothing. Returns what was done, in words.
  */
 export async function processBillingEvent(db: Db, stripe: Stripe, event: Stripe.Event, now = new Date()): Promise<{ duplicate: boolean; outcome: string }> {
-  const seen = await db.selectFrom("billing_events").select("outcome").where("event_id", "=", event.id).executeTakeFirst();
-  if (seen) return { duplicate: true, outcome: seen.outcome };
+  const seen = await billingEventOutcome(db, event.id);
+  if (seen !== undefined) return { duplicate: true, outcome: seen };
   const out: Outcome = { words: "", notices: [] };
   const object = event.data.object as { id?: string };
   switch (event.type) {

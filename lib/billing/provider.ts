@@ -24,12 +24,5 @@ export function billingClient(): Stripe | null {
   return c ? clientFor(c) : null;
 }
 
-/** The configured client, or an error for code paths that cannot run without the provider. */
-export function requireBillingClient(): Stripe {
-  const client = billingClient();
-  if (!client) throw new Error("the billing provider is not configured (PARITAS_BILLING_SECRET_KEY)");
-  return client;
-}
-
 /** The provider's error code of a failed call, if it was one of its errors. */
 export const providerErrorCode = (e: unknown): string | undefined => (e instanceof Stripe.errors.StripeError ? e.code : undefined);
