@@ -14,10 +14,13 @@ const monthBounds = (month: string) => {
  * Create the month's counter if it is missing, starting from the ledger (usage rows of the month) plus the
  * units still reserved by the org's unfinished jobs queued that month, so a counter made late agrees with both.
  */
+/** The month's counter, or undefined when the month has none yet. */
+const readCounter = async (db: Db, q: { orgId: number; mode: KeyMode; month: string }) =>
+  (await db.selectFrom("quota_counters").select("used").where("org_id", "=", q.orgId).where("mode", "=", q.mode).where("period", "=", q.month).executeTakeFirst())?.used;
+
 async function ensureCounter(db: Db, orgId: number, mode: KeyMode, month: string): Promise<void> {
   // A point lookup first: the insert's ledger sum would be evaluated (a scan of the month) even when the row exists.
-  const exists = await db.selectFrom("quota_counters").select("used").where("org_id", "=", orgId).where("mode", "=", mode).where("period", "=", month).executeTakeFirst();
-  if (exists) return;
+  if ((await readCounter(db, { orgId, mode, month })) !== undefined) return;
   const { from, to } = monthBounds(month);
   await sql`
     insert into quota_counters (org_id, mode, period, used)
@@ -31,9 +34,10 @@ async function ensureCounter(db: Db, orgId: number, mode: KeyMode, month: string
 
 /** Units used so far this month (reservations included). */
 export async function unitsUsed(db: Db, orgId: number, mode: KeyMode, month: string): Promise<number> {
+  const used = await readCounter(db, { orgId, mode, month });
+  if (used !== undefined) return used;
   await ensureCounter(db, orgId, mode, month);
-  const row = await db.selectFrom("quota_counters").select("used").where("org_id", "=", orgId).where("mode", "=", mode).where("period", "=", month).executeTakeFirstOrThrow();
-  return row.used;
+  return (await readCounter(db, { orgId, mode, month }))!;
 }
 
 const counter = (db: Db, q: { orgId: number; mode: KeyMode; month: string }) =>
@@ -52,8 +56,7 @@ export async function reserveUnits(db: Db, q: { orgId: number; mode: KeyMode; mo
   };
   const used = await take();
   if (used !== undefined) return used;
-  const exists = await db.selectFrom("quota_counters").select("used").where("org_id", "=", q.orgId).where("mode", "=", q.mode).where("period", "=", q.month).executeTakeFirst();
-  if (exists) return null;
+  if ((await readCounter(db, q)) !== undefined) return null;
   await ensureCounter(db, q.orgId, q.mode, q.month);
   return (await take()) ?? null;
 }
