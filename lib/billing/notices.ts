@@ -72,14 +72,18 @@ export function noticeText(orgName: string, n: BillingNotice): { subject: string
   }
 }
 
+/** The notice as mails to each owner and billing admin of the org (none when it has gone). */
+async function noticeMails(db: Db, orgId: number, n: BillingNotice) {
+  const [org, to] = await Promise.all([findOrgById(db, orgId), listBillingEmails(db, orgId)]);
+  if (!org) return [];
+  const { subject, text } = noticeText(org.name, n);
+  return to.map((addr) => ({ to: addr, subject, text }));
+}
+
 /** Mail a notice to the owners and billing admins; failures are logged, the change it reports has happened either way. */
 export async function sendBillingNotice(db: Db, orgId: number, n: BillingNotice): Promise<void> {
-  const [org, to] = await Promise.all([findOrgById(db, orgId), listBillingEmails(db, orgId)]);
-  if (!org || to.length === 0) return;
-  const { subject, text } = noticeText(org.name, n);
-  await Promise.all(
-    to.map((addr) => sendMail({ to: addr, subject, text }).catch((e: unknown) => console.error(`mail "${subject}" to ${addr} failed: ${e instanceof Error ? e.message : String(e)}`))),
-  );
+  const mails = await noticeMails(db, orgId, n);
+  await Promise.all(mails.map((m) => sendMail(m).catch((e: unknown) => console.error(`mail "${m.subject}" to ${m.to} failed: ${e instanceof Error ? e.message : String(e)}`))));
 }
 
 // Thresholds already announced (per database), so a busy org past 80 % does not try the notices table on every call.
@@ -103,10 +107,9 @@ export async function announceAllowance(db: Db, q: { orgId: number; plan: Plan; 
       continue;
     }
     announced.add(memo);
-    const [org, to] = await Promise.all([findOrgById(db, q.orgId), listBillingEmails(db, q.orgId)]);
-    const { subject, text } = noticeText(org?.name ?? "Your organisation", { kind: "allowance", threshold: t, used: q.used, plan: q.plan, resetsAt: q.resetsAt });
+    const mails = await noticeMails(db, q.orgId, { kind: "allowance", threshold: t, used: q.used, plan: q.plan, resetsAt: q.resetsAt });
     try {
-      await Promise.all(to.map((addr) => sendMail({ to: addr, subject, text })));
+      await Promise.all(mails.map((m) => sendMail(m)));
     } catch (e) {
       announced.delete(memo);
       await dropQuotaNotice(db, q.orgId, q.month, pct);
