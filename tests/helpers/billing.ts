@@ -4,9 +4,10 @@ import type { AddressInfo } from "node:net";
 import { rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import Stripe from "stripe";
+import type Stripe from "stripe";
 import { afterAll, beforeAll } from "vitest";
-import { startFakeBilling, type FakeBilling } from "@/fakes/billing";
+import type { FakeBilling } from "@/fakes/billing";
+import { bootBilling } from "../fakes/billing-harness";
 import { createApp } from "./app";
 
 export const TEST_BILLING_KEY = "test-billing-secret";
@@ -37,15 +38,15 @@ export function billingStandInForThisFile(opts: { webhooks?: boolean } = {}): Bi
       await new Promise<void>((ok) => app!.listen(0, "127.0.0.1", ok));
       h.appUrl = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
     }
-    h.standIn = await startFakeBilling({
-      port: 0,
+    const boot = await bootBilling({
       stateFile,
       secretKey: TEST_BILLING_KEY,
       webhookUrl: opts.webhooks ? `${h.appUrl}/api/webhooks/billing` : undefined,
       webhookSecret: TEST_WEBHOOK_SECRET,
-      closeDelayMs: 400 * 86_400_000,
       retryBaseMs: 50,
     });
+    h.standIn = boot.billing;
+    h.stripe = boot.stripe;
     Object.assign(process.env, {
       PARITAS_BILLING_SECRET_KEY: TEST_BILLING_KEY,
       PARITAS_BILLING_HOST: "127.0.0.1",
@@ -53,7 +54,6 @@ export function billingStandInForThisFile(opts: { webhooks?: boolean } = {}): Bi
       PARITAS_BILLING_PROTOCOL: "http",
       PARITAS_BILLING_WEBHOOK_SECRET: TEST_WEBHOOK_SECRET,
     });
-    h.stripe = new Stripe(TEST_BILLING_KEY, { host: "127.0.0.1", port: h.standIn.port, protocol: "http", maxNetworkRetries: 2 });
     h.control = async (path) => {
       const res = await fetch(`${h.standIn.url}/_stand-in/${path}`, { method: "POST", headers: { authorization: `Bearer ${TEST_BILLING_KEY}` } });
       if (!res.ok) throw new Error(`stand-in control ${path}: ${res.status} ${await res.text()}`);
