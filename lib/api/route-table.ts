@@ -13,6 +13,7 @@ export type ServedMethod = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
 /** Route pattern (App Router syntax) → the methods its handlers serve. */
 export const apiRoutes: Readonly<Record<string, readonly ServedMethod[]>> = {
   "/api/auth/[...nextauth]": ["GET", "POST"],
+  "/api/console/auth/confirm": ["POST"],
   "/api/console/auth/reset-confirm": ["POST"],
   "/api/console/auth/reset-request": ["POST"],
   "/api/console/auth/signup": ["POST"],

@@ -14,6 +14,16 @@ export const SESSION_LIFETIME_SECONDS = 24 * 60 * 60;
 export const SESSION_IDLE_SECONDS = 30 * 60;
 /** A used session's cookie is re-issued once its last issue is this old, not on every request. */
 const RENEW_AFTER_SECONDS = 60;
+/**
+ * Creating a live key, transferring ownership and removing another member need the password
+ * entered this recently (or a sign-in this recent); PARITAS_REAUTH_WINDOW_SECONDS overrides it for tests.
+ */
+export const REAUTH_WINDOW_SECONDS = 15 * 60;
+
+export function reauthWindowSeconds(): number {
+  const configured = Number(process.env.PARITAS_REAUTH_WINDOW_SECONDS);
+  return Number.isInteger(configured) && configured >= 0 ? configured : REAUTH_WINDOW_SECONDS;
+}
 
 /** PARITAS_AUTH_SECRET signs sessions; development and tests fall back to a fixed value, production must set it. */
 export function authSecret(): string {
@@ -47,6 +57,8 @@ export interface SessionToken extends SessionUser {
   signedInAt: number;
   /** Seconds since 1970 of the token's last issue: the session's last use, give or take RENEW_AFTER_SECONDS. */
   issuedAt: number;
+  /** Seconds since 1970 of the last password confirmation; a sign-in counts as one. Kept across renewals. */
+  confirmedAt: number;
   cookieName: (typeof SESSION_COOKIES)[number];
 }
 
@@ -66,7 +78,8 @@ export async function readSessionToken(req: Request): Promise<SessionToken | nul
       const signedInAt = typeof jwt.signedInAt === "number" ? jwt.signedInAt : issuedAt;
       const now = nowSeconds();
       if (now - issuedAt > SESSION_IDLE_SECONDS || now - signedInAt > SESSION_LIFETIME_SECONDS) return null;
-      return { userId, email: jwt.email, epoch: typeof jwt.epoch === "number" ? jwt.epoch : 0, signedInAt, issuedAt, cookieName };
+      const confirmedAt = typeof jwt.confirmedAt === "number" ? jwt.confirmedAt : signedInAt;
+      return { userId, email: jwt.email, epoch: typeof jwt.epoch === "number" ? jwt.epoch : 0, signedInAt, issuedAt, confirmedAt, cookieName };
     } catch {
       return null;
     }
@@ -74,22 +87,36 @@ export async function readSessionToken(req: Request): Promise<SessionToken | nul
   return null;
 }
 
+/** The Set-Cookie value of the session re-issued now, with the given confirmation time; null past its lifetime. */
+async function reissue(s: SessionToken, confirmedAt: number): Promise<string | null> {
+  const maxAge = SESSION_LIFETIME_SECONDS - (nowSeconds() - s.signedInAt);
+  if (maxAge <= 0) return null;
+  const token = await encode({ token: { sub: String(s.userId), email: s.email, epoch: s.epoch, signedInAt: s.signedInAt, confirmedAt }, secret: authSecret(), maxAge });
+  const secure = s.cookieName.startsWith("__Secure-") || secureCookies();
+  return `${s.cookieName}=${token}; Path=/; Max-Age=${maxAge}; HttpOnly; SameSite=Lax${secure ? "; Secure" : ""}`;
+}
+
 /**
  * The Set-Cookie value that re-issues a used session, moving its idle deadline; null while the
  * current cookie is fresh enough. Same name and attributes as next-auth's own cookie.
  */
 export async function renewalCookie(s: SessionToken): Promise<string | null> {
-  const now = nowSeconds();
-  if (now - s.issuedAt < RENEW_AFTER_SECONDS) return null;
-  const maxAge = SESSION_LIFETIME_SECONDS - (now - s.signedInAt);
-  if (maxAge <= 0) return null;
-  const token = await encode({ token: { sub: String(s.userId), email: s.email, epoch: s.epoch, signedInAt: s.signedInAt }, secret: authSecret(), maxAge });
-  const secure = s.cookieName.startsWith("__Secure-") || secureCookies();
-  return `${s.cookieName}=${token}; Path=/; Max-Age=${maxAge}; HttpOnly; SameSite=Lax${secure ? "; Secure" : ""}`;
+  if (nowSeconds() - s.issuedAt < RENEW_AFTER_SECONDS) return null;
+  return reissue(s, s.confirmedAt);
 }
 
-/** A session cookie for a user, as next-auth would set it at sign-in (tests and scripts). */
-export async function sessionCookie(user: SessionUser, maxAgeSeconds = 3600, epoch = 0): Promise<string> {
-  const token = await encode({ token: { sub: String(user.userId), email: user.email, epoch, signedInAt: nowSeconds() }, secret: authSecret(), maxAge: maxAgeSeconds });
+/** The Set-Cookie value of the session with its password confirmed just now. */
+export const confirmedCookie = (s: SessionToken) => reissue(s, nowSeconds());
+
+/** True when the session's last confirmation is within the window (reauthWindowSeconds). */
+export const recentlyConfirmed = (s: SessionToken) => nowSeconds() - s.confirmedAt <= reauthWindowSeconds();
+
+/**
+ * A session cookie for a user, as next-auth would set it at sign-in (tests and scripts); the sign-in
+ * counts as a confirmation unless `confirmedAgoSeconds` moves the confirmation back.
+ */
+export async function sessionCookie(user: SessionUser, maxAgeSeconds = 3600, epoch = 0, confirmedAgoSeconds = 0): Promise<string> {
+  const signedInAt = nowSeconds();
+  const token = await encode({ token: { sub: String(user.userId), email: user.email, epoch, signedInAt, confirmedAt: signedInAt - confirmedAgoSeconds }, secret: authSecret(), maxAge: maxAgeSeconds });
   return `next-auth.session-token=${token}`;
 }

@@ -51,6 +51,16 @@ const rows: Row[] = [
     body: (fx, as) => ({ token: fx.invitationsElsewhere.get(as.id)!.token }),
     expect: everyone(200),
   },
+  // Fixture people sign in by link and have no password: every role is told how to confirm instead (tests/console/reauth.test.ts covers passwords).
+  {
+    method: "POST",
+    route: "/api/console/auth/confirm",
+    does: "confirm one's password (none set: sign in again by link)",
+    path: () => "/api/console/auth/confirm",
+    body: () => ({ password: "not a fixture password" }),
+    expect: everyone(422),
+    type: /^application\/problem\+json/,
+  },
   { method: "GET", route: "/api/console/orgs/[org]/members", does: "list members", path: (fx) => `${org(fx)}/members`, expect: everyone(200) },
   {
     method: "PATCH",

@@ -1,5 +1,6 @@
 import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { requireRecentConfirmation } from "@/lib/auth/reauth";
 import { createOrgKey, listOrgKeys, newKeyInput } from "@/lib/console/keys";
 
 // Billing has no keys; the services narrow a developer to the keys they created.
@@ -10,6 +11,8 @@ const createKey = consoleRoute(
     withSession(
       withOrgRole(["owner", "developer"], async (req, { db, org, caller }) => {
         const input = await readJson(req, newKeyInput);
+        // A live key spends real money; a test key does not, so only a live one asks for the password.
+        if (input.mode === "live") await requireRecentConfirmation(req);
         return json(await createOrgKey(db, org, caller, input), 201);
       }),
     ),

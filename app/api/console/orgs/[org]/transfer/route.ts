@@ -1,5 +1,6 @@
 import { methods } from "@/lib/api/methods";
 import { consoleRoute, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { requireRecentConfirmation } from "@/lib/auth/reauth";
 import { transferInput, transferOwnership } from "@/lib/console/members";
 
 const transfer = consoleRoute(
@@ -7,6 +8,7 @@ const transfer = consoleRoute(
     withSession(
       withOrgRole(["owner"], async (req, { db, org, caller }) => {
         const { userId } = await readJson(req, transferInput);
+        await requireRecentConfirmation(req);
         return json(await transferOwnership(db, org, caller, userId));
       }),
     ),

@@ -1,5 +1,6 @@
 import { methods } from "@/lib/api/methods";
 import { ANY_ROLE, consoleRoute, idParam, json, readJson, readQuery, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
+import { requireRecentConfirmation } from "@/lib/auth/reauth";
 import { changeRole, removeMember, removeQuery, roleChangeInput } from "@/lib/console/members";
 
 const changeMemberRole = consoleRoute(
@@ -19,7 +20,10 @@ const removeMemberRoute = consoleRoute(
     withSession(
       withOrgRole(ANY_ROLE, async (req, ctx) => {
         const { revokeKeys } = readQuery(req, removeQuery);
-        return json(await removeMember(ctx.db, ctx.org, ctx.caller, idParam(ctx, "userId"), { revokeKeys }));
+        const userId = idParam(ctx, "userId");
+        // Removing someone else asks for the password; a non-owner is refused that by the service, so is not asked for it first.
+        if (userId !== ctx.caller.id && ctx.caller.role === "owner") await requireRecentConfirmation(req);
+        return json(await removeMember(ctx.db, ctx.org, ctx.caller, userId, { revokeKeys }));
       }),
     ),
   ),
