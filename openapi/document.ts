@@ -30,7 +30,7 @@ function okExamples(e: (typeof endpoints)[number]) {
 const rateHeaders = {
   RateLimit: { description: "Requests left in the current window and seconds until it resets (IETF RateLimit header fields).", schema: { type: "string" as const, example: '"per-key";r=599;t=42' } },
   "RateLimit-Policy": { description: `Requests per ${RATE_WINDOW_SECONDS}-second window for this key.`, schema: { type: "string" as const, example: `"per-key";q=600;w=${RATE_WINDOW_SECONDS}` } },
-  "X-Request-Id": { description: "Identifies this request in logs and usage rows.", schema: { type: "string" as const } },
+  "X-Request-Id": { description: "Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one.", schema: { type: "string" as const } },
   "Units-Allowance": { description: "Compute units a month the key's allowance holds (live and test keys have their own, by plan).", schema: { type: "integer" as const } },
   "Units-Used": { description: "Units used this month after this call, including units held by running jobs.", schema: { type: "integer" as const } },
   "Units-Remaining": { description: "Units left of the allowance this month (0 past it: a paid plan bills live units beyond it; the free plan and test keys stop).", schema: { type: "integer" as const } },
@@ -94,7 +94,8 @@ export function buildOpenApiDocument({ explicitTypes = true }: { explicitTypes?:
                 .meta({
                   description:
                     `1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for ${IDEMPOTENCY_TTL_MS / 3600000} h; ` +
-                    "another body with the same key is a 422 problem, and a key whose first request is still running a 409.",
+                    "another body with the same key is a 422 problem, and a key whose first request is still running a 409. " +
+                    "Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored.",
                 }),
             }),
             body: { required: true, description: `JSON, at most ${MAX_BODY_BYTES} bytes.`, content: { "application/json": { schema: e.input, examples } } },

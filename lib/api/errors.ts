@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { logError, redactSecrets } from "./redact";
 
 /** Field errors listed in one problem at most; `omittedErrors` counts the rest, so a huge bad batch gives a small answer. */
 export const MAX_FIELD_ERRORS = 20;
@@ -148,25 +149,18 @@ export const problemSchema = z
 
 export type Problem = z.infer<typeof problemSchema>;
 
-/**
- * Key-shaped text (the current format and the earlier `prt_` one) cut to its visible prefix, as key lists show it:
- * a problem never echoes a whole key, even one the caller put in a field name (`Unknown field …`).
- */
-const KEY_SHAPED = /(?:live|test)\.prt1\.[0-9A-Za-z]{36}|prt_(?:live|test)_[0-9A-Za-z]{38}/g;
-const VISIBLE_LEN = "live.prt1.".length + 4;
-const redactKeys = (text: string) => text.replace(KEY_SHAPED, (key) => `${key.slice(0, VISIBLE_LEN)}…`);
-
 /** Render an ApiError (or anything else, as a 500 that reveals nothing) as application/problem+json. */
 export function problemResponse(err: unknown, requestId: string): Response {
   const e = err instanceof ApiError ? err : new ApiError("internal", "An unexpected error occurred. Quote the request id when reporting it.");
-  if (!(err instanceof ApiError)) console.error(`[${requestId}]`, err);
+  if (!(err instanceof ApiError)) logError(`[${requestId}] unexpected failure`, err);
   const body: Problem = {
     type: problemTypeUri(e.code),
     title: problemTypes[e.code].title,
     status: e.status,
-    detail: redactKeys(e.detail),
+    // A problem never echoes a whole key or credential, even one the caller put in a field name (`Unknown field …`).
+    detail: redactSecrets(e.detail),
     instance: requestId,
-    ...(e.extra.errors ? { errors: e.extra.errors.map((f) => ({ pointer: redactKeys(f.pointer), message: redactKeys(f.message) })) } : {}),
+    ...(e.extra.errors ? { errors: e.extra.errors.map((f) => ({ pointer: redactSecrets(f.pointer), message: redactSecrets(f.message) })) } : {}),
     ...(e.extra.omittedErrors ? { omittedErrors: e.extra.omittedErrors } : {}),
     ...(e.extra.limit ? { limit: e.extra.limit } : {}),
     ...(e.extra.quota ? { quota: e.extra.quota } : {}),

@@ -12,6 +12,7 @@ import { replyJson } from "./pool-reply";
 import { consumeRate } from "./rate-limit";
 import { requestIdFor } from "./request-id";
 import { checkWork, unitsFor, workLimits } from "./work";
+import { logError } from "@/lib/api/redact";
 
 // Route modules and the console guard take the request id from here, with the rest of the HTTP machinery.
 export { requestIdFor };
@@ -104,7 +105,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
       response = problemResponse(asProblem(err), requestId);
       for (const [k, v] of Object.entries(headers)) if (!response.headers.has(k)) response.headers.set(k, v);
       if (db && principal && err instanceof ApiError && err.extra.quota) {
-        void afterRefusal(db, principal.orgId, err.extra.quota).catch((e: unknown) => console.error(`[${requestId}] allowance notice failed`, e));
+        void afterRefusal(db, principal.orgId, err.extra.quota).catch((e: unknown) => logError(`[${requestId}] allowance notice failed`, e));
       }
     }
     if (db && principal) {
@@ -112,7 +113,7 @@ export function endpointRoute(spec: Endpoint): (req: Request) => Promise<Respons
         const quota = await meter(db, { principal, endpoint: spec.id, method: spec.method, status: response.status, units, durationMs: performance.now() - started, requestId, at: at0 }, reservation);
         for (const [k, v] of Object.entries(quotaHeaders(quota))) response.headers.set(k, v);
       } catch (e) {
-        console.error(`[${requestId}] metering failed`, e);
+        logError(`[${requestId}] metering failed`, e);
       }
     }
     // Every answer here was computed for one key (its account, its quota): no shared cache may keep it.

@@ -3,6 +3,7 @@ import type { Db } from "@/db";
 import { claimIdempotencyKey, completeIdempotencyRecord, findIdempotencyRecord, releaseIdempotencyKey, takeOverIdempotencyKey } from "@/db/queries/idempotency";
 import { poolLimits } from "@/lib/jobs/pool";
 import { ApiError } from "./errors";
+import { redactSecrets } from "./redact";
 
 /** How long a stored response is replayed: 24 h. */
 export const IDEMPOTENCY_TTL_MS = 24 * 3600 * 1000;
@@ -41,6 +42,10 @@ export async function beginIdempotent(
 ): Promise<IdempotencyOutcome> {
   if (!IDEMPOTENCY_KEY_PATTERN.test(q.key)) {
     throw new ApiError("bad-request", "Idempotency-Key must be 1 to 255 visible ASCII characters.");
+  }
+  // Idempotency keys are stored and quoted back; a secret sent as one (an API key in the wrong header) is refused unseen.
+  if (redactSecrets(q.key) !== q.key) {
+    throw new ApiError("bad-request", "Idempotency-Key looks like an API key or another credential. Send a random value of your own, such as a UUID, never a secret.");
   }
   const now = q.now ?? new Date();
   const requestHash = createHash("sha256").update(q.endpoint).update("\n").update(q.bodyText).digest("hex");

@@ -3,6 +3,7 @@ import { touchApiKey } from "@/db/queries/api-keys";
 import { insertUsageEvent } from "@/db/queries/usage";
 import type { KeyPrincipal } from "./auth";
 import { afterSettle, reserveQuota, settleQuota, type Payer, type QuotaState, type Reservation } from "./quota";
+import { logError } from "@/lib/api/redact";
 
 export interface Metered {
   principal: KeyPrincipal;
@@ -57,6 +58,6 @@ export async function recordUsage(
     });
     return after;
   });
-  if (units > 0) void afterSettle(db, state, u.payer.orgId).catch((e: unknown) => console.error("allowance notice failed", e));
+  if (units > 0) void afterSettle(db, state, u.payer.orgId).catch((e: unknown) => logError("allowance notice failed", e));
   return state;
 }

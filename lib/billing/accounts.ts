@@ -9,6 +9,7 @@ import { ApiError } from "@/lib/api/errors";
 import { providerCatalogue } from "./catalogue";
 import { sendBillingNotice, type BillingNotice } from "./notices";
 import { FREE_PLAN, GRACE_DAYS, isPaid, isPlanId, planOf, type PlanId } from "./plans";
+import { logError } from "@/lib/api/redact";
 
 /**
  * An organisation's standing at the billing provider: its customer, the checkout that starts or changes a paid
@@ -116,7 +117,7 @@ async function reconcileSubscription(db: Db, stripe: Stripe, sub: Stripe.Subscri
     } else out.words += ` subscription ${sub.id} is not the organisation's;`;
   });
   if (replaced) {
-    await stripe.subscriptions.cancel(replaced).catch((e: unknown) => console.error(`cancelling the replaced subscription ${replaced} failed`, e));
+    await stripe.subscriptions.cancel(replaced).catch((e: unknown) => logError(`cancelling the replaced subscription ${replaced} failed`, e));
     out.words += ` cancelled ${replaced};`;
   }
 }
@@ -210,7 +211,7 @@ export async function downgradeToFree(db: Db, stripe: Stripe | null, org: Org, a
 export async function sweepGrace(db: Db, stripe: Stripe | null, now = new Date()): Promise<number> {
   const due = await graceExpired(db, iso(now));
   for (const account of due) {
-    if (account.subscription_id && stripe) await stripe.subscriptions.cancel(account.subscription_id).catch((e: unknown) => console.error(`cancelling ${account.subscription_id} at the end of grace failed`, e));
+    if (account.subscription_id && stripe) await stripe.subscriptions.cancel(account.subscription_id).catch((e: unknown) => logError(`cancelling ${account.subscription_id} at the end of grace failed`, e));
     const out: Outcome = { words: "", notices: [] };
     await inTransaction(db, async (tx) => {
       await updateBillingAccount(tx, account.org_id, { subscription_id: null, subscription_status: "canceled", payment_failed_at: null, grace_until: null, updated_at: iso(now) });

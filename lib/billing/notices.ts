@@ -4,6 +4,7 @@ import { findOrgById } from "@/db/queries/orgs";
 import { claimQuotaNotice, dropQuotaNotice } from "@/db/queries/quota";
 import { sendMail } from "@/lib/mail/send";
 import { formatMoney, GRACE_DAYS, planOf, type Plan } from "./plans";
+import { logError } from "@/lib/api/redact";
 
 /** Messages about money and allowances, to every owner and billing admin of the organisation. */
 
@@ -83,7 +84,7 @@ async function noticeMails(db: Db, orgId: number, n: BillingNotice) {
 /** Mail a notice to the owners and billing admins; failures are logged, the change it reports has happened either way. */
 export async function sendBillingNotice(db: Db, orgId: number, n: BillingNotice): Promise<void> {
   const mails = await noticeMails(db, orgId, n);
-  await Promise.all(mails.map((m) => sendMail(m).catch((e: unknown) => console.error(`mail "${m.subject}" to ${m.to} failed: ${e instanceof Error ? e.message : String(e)}`))));
+  await Promise.all(mails.map((m) => sendMail(m).catch((e: unknown) => logError(`mail "${m.subject}" to ${m.to} failed`, e instanceof Error ? e.message : e))));
 }
 
 // Thresholds already announced (per database), so a busy org past 80 % does not try the notices table on every call.
@@ -113,7 +114,7 @@ export async function announceAllowance(db: Db, q: { orgId: number; plan: Plan; 
     } catch (e) {
       announced.delete(memo);
       await dropQuotaNotice(db, q.orgId, q.month, pct);
-      console.error(`allowance notice for org ${q.orgId} failed: ${e instanceof Error ? e.message : String(e)}`);
+      logError(`allowance notice for org ${q.orgId} failed`, e instanceof Error ? e.message : e);
     }
   }
 }

@@ -1,6 +1,7 @@
 import type Stripe from "stripe";
 import type { Db } from "@/db";
 import { findOrgById } from "@/db/queries/orgs";
+import { redactSecrets } from "@/lib/api/redact";
 import { markUsageReported, unreportedUsage } from "@/db/queries/billing";
 import { sweepGrace, ensureCustomer } from "./accounts";
 import { METER_EVENT, providerCatalogue } from "./catalogue";
@@ -88,7 +89,7 @@ export async function runReporter(db: Db, stripe: Stripe, signal: AbortSignal, o
       backoff = pass.failed > 0 ? Math.min(60_000, Math.max(1_000, backoff * 2)) : 0;
     } catch (e) {
       backoff = Math.min(60_000, Math.max(1_000, backoff * 2));
-      opts.log?.(`reporting failed (${e instanceof Error ? e.message : String(e)}); next try in ${backoff / 1000} s`);
+      opts.log?.(redactSecrets(`reporting failed (${e instanceof Error ? e.message : String(e)}); next try in ${backoff / 1000} s`));
     }
     if (backoff > 0) await sleep(backoff, signal);
     else if (!busy) await sleep(opts.idleMs ?? 2_000, signal);

@@ -1,5 +1,6 @@
 import type { Org, Role } from "@/db/schema";
 import { sendMail, type Mail } from "@/lib/mail/send";
+import { logError } from "@/lib/api/redact";
 
 /**
  * Send mails without holding up the response, after the transaction that caused them has committed.
@@ -12,7 +13,7 @@ export function deliver(mails: Mail[]): void {
       try {
         await sendMail(mail);
       } catch (e) {
-        console.error(`mail "${mail.subject}" to ${mail.to} failed: ${e instanceof Error ? e.message : String(e)}`);
+        logError(`mail "${mail.subject}" to ${mail.to} failed`, e instanceof Error ? e.message : e);
       }
     })();
   }

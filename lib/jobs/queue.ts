@@ -3,6 +3,7 @@ import { claimJob, finishJob, insertJob, insertJobChunk, listJobChunks, releaseJ
 import { monthKey } from "@/db/queries/quota";
 import { insertUsageEvent } from "@/db/queries/usage";
 import { afterSettle, settleQuota } from "@/lib/api/quota";
+import { logError } from "@/lib/api/redact";
 
 /** A job as a runner receives it: its input and the chunks already folded (a resumed job continues after them). */
 export interface ClaimedJob {
@@ -101,7 +102,7 @@ export function databaseQueue(db: Db): JobQueue {
         return { state, orgId: job.org_id, units };
       });
       if (!settled) return false;
-      if (settled.units > 0) await afterSettle(db, settled.state, settled.orgId).catch((e: unknown) => console.error("allowance notice failed", e));
+      if (settled.units > 0) await afterSettle(db, settled.state, settled.orgId).catch((e: unknown) => logError("allowance notice failed", e));
       return true;
     },
     async release(id, holder) {

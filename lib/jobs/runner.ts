@@ -1,3 +1,4 @@
+import { redactSecrets } from "@/lib/api/redact";
 import type { ClaimedJob, JobQueue } from "./queue";
 
 /**
@@ -167,6 +168,7 @@ export async function runJobs(o: RunnerOptions, signal: AbortSignal): Promise<vo
     }
     o.log?.(`job ${job.id} (${job.kind}) claimed, attempt ${job.attempts}${job.chunks.length ? `, resuming after ${job.chunks.length} chunks` : ""}`);
     const end = await runJob(job, o, () => signal.aborted);
-    o.log?.(`job ${job.id}: ${end}`);
+    // The end may quote a failure's message, which may quote the request that queued the job.
+    o.log?.(redactSecrets(`job ${job.id}: ${end}`));
   }
 }

@@ -115,8 +115,15 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     secrets.set("legacy-format key", legacy);
     expect(remember(await postJson("/api/v1/distance", { [legacy]: 1 }, `Bearer ${key}`)).text).toContain("prt_live_");
     expect(remember(await postJson("/api/v1/distance", `{"a": ${key}}`, `Bearer ${key}`)).status).toBe(400);
-    expect(remember(await postJson("/api/v1/distance", { a: "1", b: "0" }, `Bearer ${key}`, { "idempotency-key": key })).status).toBe(200);
-    vi.mocked(consumeRate).mockRejectedValueOnce(new Error("the rate store is unreachable"));
+    // A key in the wrong header: refused as an Idempotency-Key (never stored), replaced as a request id.
+    const asIdempotencyKey = remember(await postJson("/api/v1/distance", { a: "1", b: "0" }, `Bearer ${key}`, { "idempotency-key": key }));
+    expect(asIdempotencyKey.status).toBe(400);
+    expect(asIdempotencyKey.body.detail).toMatch(/looks like an API key/);
+    const asRequestId = remember(await postJson("/api/v1/distance", { a: "1", b: "0" }, `Bearer ${key}`, { "x-request-id": key }));
+    expect(asRequestId.status).toBe(200);
+    expect(asRequestId.headers["x-request-id"]).toMatch(/^req_[0-9a-f]{24}$/);
+    // An unexpected failure whose message quotes the key and the header that carried it: logged, without either.
+    vi.mocked(consumeRate).mockRejectedValueOnce(new Error(`the rate store is unreachable (asked for ${key} with Authorization: Bearer ${key})`));
     expect(remember(await postJson("/api/v1/distance", { a: key }, `Bearer ${key}`)).status).toBe(500);
     expect(captured.join("")).toContain("the rate store is unreachable");
   });
@@ -241,7 +248,7 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
   it("jobs: a simulation queued with the key runs on a runner that logs", async () => {
     const key = fx.keys.developer.key;
     const body = { code: { family: "hamming", r: 3 }, channel: { type: "bsc" }, points: [0.02], stop: { maxBits: 20_000 }, seed: 12 };
-    const res = remember(await postJson("/api/v1/simulations", body, `Bearer ${key}`, { "idempotency-key": `sim-${key}` }));
+    const res = remember(await postJson("/api/v1/simulations", body, `Bearer ${key}`, { "idempotency-key": "secrets-sim-1" }));
     expect(res.status).toBe(202);
     const stop = new AbortController();
     const running = runJobs({ queue: databaseQueue(await getDb()), kinds: jobKinds, holder: "secrets-runner", heartbeatMs: 100, idleMs: 20, parallel: 2, log: (l) => console.log(l) }, stop.signal);
@@ -256,7 +263,8 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     const db = await getDb();
     const audit = (await db.selectFrom("audit_log").selectAll().execute()).map((r) => JSON.stringify(r));
     const usage = (await db.selectFrom("usage_events").selectAll().execute()).map((r) => JSON.stringify(r));
-    const places = { output: captured.join("\n"), answers: answers.join("\n"), audit: audit.join("\n"), usage: usage.join("\n") };
+    const idempotency = (await db.selectFrom("idempotency_records").selectAll().execute()).map((r) => JSON.stringify(r));
+    const places = { output: captured.join("\n"), answers: answers.join("\n"), audit: audit.join("\n"), usage: usage.join("\n"), idempotency: idempotency.join("\n") };
     expect(audit.length).toBeGreaterThan(0);
     expect(usage.length).toBeGreaterThan(0);
     const all = new Map([...secrets, ...mailed]);

@@ -1518,7 +1518,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1538,7 +1538,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1563,7 +1563,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1582,7 +1582,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -1597,7 +1597,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1620,7 +1620,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1643,7 +1643,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1666,7 +1666,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1689,7 +1689,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1722,7 +1722,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1745,7 +1745,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1770,7 +1770,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1794,7 +1794,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -1814,7 +1814,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1839,7 +1839,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1858,7 +1858,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -1873,7 +1873,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1896,7 +1896,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1919,7 +1919,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1942,7 +1942,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1965,7 +1965,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -1998,7 +1998,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2021,7 +2021,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2046,7 +2046,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2070,7 +2070,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -2090,7 +2090,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2115,7 +2115,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2134,7 +2134,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -2149,7 +2149,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2172,7 +2172,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2195,7 +2195,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2218,7 +2218,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2241,7 +2241,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2274,7 +2274,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2297,7 +2297,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2322,7 +2322,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2346,7 +2346,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -2366,7 +2366,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2391,7 +2391,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2410,7 +2410,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -2425,7 +2425,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2448,7 +2448,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2471,7 +2471,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2494,7 +2494,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2517,7 +2517,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2550,7 +2550,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2573,7 +2573,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2598,7 +2598,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2622,7 +2622,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -2642,7 +2642,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2667,7 +2667,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2686,7 +2686,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -2701,7 +2701,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2724,7 +2724,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2747,7 +2747,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2770,7 +2770,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2793,7 +2793,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2826,7 +2826,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2849,7 +2849,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2874,7 +2874,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2898,7 +2898,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -2918,7 +2918,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2943,7 +2943,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -2962,7 +2962,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -2977,7 +2977,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3000,7 +3000,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3023,7 +3023,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3046,7 +3046,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3069,7 +3069,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3102,7 +3102,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3125,7 +3125,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3150,7 +3150,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3174,7 +3174,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -3194,7 +3194,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3219,7 +3219,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3238,7 +3238,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -3253,7 +3253,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3276,7 +3276,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3299,7 +3299,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3322,7 +3322,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3345,7 +3345,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3378,7 +3378,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3401,7 +3401,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3426,7 +3426,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3450,7 +3450,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -3470,7 +3470,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3495,7 +3495,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3514,7 +3514,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -3529,7 +3529,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3552,7 +3552,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3575,7 +3575,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3598,7 +3598,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3621,7 +3621,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3654,7 +3654,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3677,7 +3677,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3702,7 +3702,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3747,7 +3747,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3768,7 +3768,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -3783,7 +3783,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3806,7 +3806,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3829,7 +3829,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3853,7 +3853,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -3873,7 +3873,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3900,7 +3900,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3927,7 +3927,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3946,7 +3946,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -3961,7 +3961,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -3984,7 +3984,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4007,7 +4007,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4030,7 +4030,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4053,7 +4053,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4082,7 +4082,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4109,7 +4109,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4134,7 +4134,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4173,7 +4173,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4194,7 +4194,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -4209,7 +4209,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4232,7 +4232,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4255,7 +4255,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4278,7 +4278,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4319,7 +4319,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4340,7 +4340,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -4355,7 +4355,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4378,7 +4378,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4401,7 +4401,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4425,7 +4425,7 @@ export interface operations {
         parameters: {
             query?: never;
             header?: {
-                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. */
+                /** @description 1 to 255 visible ASCII characters (0x21 to 0x7E; anything else is a 400 problem). Replays the stored response for the same key and body for 24 h; another body with the same key is a 422 problem, and a key whose first request is still running a 409. Use a random value such as a UUID: a value shaped like an API key or another credential is refused with a 400, and never stored. */
                 "Idempotency-Key"?: string;
             };
             path?: never;
@@ -4445,7 +4445,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4472,7 +4472,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4491,7 +4491,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -4506,7 +4506,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4529,7 +4529,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4552,7 +4552,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4575,7 +4575,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4598,7 +4598,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4627,7 +4627,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4654,7 +4654,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4679,7 +4679,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4718,7 +4718,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4739,7 +4739,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -4754,7 +4754,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4777,7 +4777,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4800,7 +4800,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4823,7 +4823,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4862,7 +4862,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4887,7 +4887,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4910,7 +4910,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -4925,7 +4925,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4948,7 +4948,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4971,7 +4971,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -4994,7 +4994,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5033,7 +5033,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5054,7 +5054,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -5069,7 +5069,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5092,7 +5092,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5115,7 +5115,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5138,7 +5138,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5183,7 +5183,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5204,7 +5204,7 @@ export interface operations {
             /** @description A valid API key is required. Send `Authorization: Bearer <key>` with a key that exists, is not revoked and has not expired. */
             401: {
                 headers: {
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     [name: string]: unknown;
                 };
@@ -5219,7 +5219,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5242,7 +5242,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;
@@ -5265,7 +5265,7 @@ export interface operations {
                     RateLimit?: string;
                     /** @description Requests per 60-second window for this key. */
                     "RateLimit-Policy"?: string;
-                    /** @description Identifies this request in logs and usage rows. */
+                    /** @description Identifies this request in logs and usage rows: yours when you sent a sane one (8 to 128 of A-Z a-z 0-9 . _ : -, not a credential), else a new one. */
                     "X-Request-Id"?: string;
                     /** @description Compute units a month the key's allowance holds (live and test keys have their own, by plan). */
                     "Units-Allowance"?: number;

@@ -9,6 +9,7 @@ import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
 import { publicOrigin } from "@/lib/auth/options";
 import { sendMail } from "@/lib/mail/send";
 import { passwordResetMail } from "@/lib/mail/templates";
+import { logError } from "@/lib/api/redact";
 
 const RESET_LINK_SECONDS = 60 * 60;
 
@@ -41,7 +42,7 @@ const requestReset = consoleRoute(
     const { email } = await readJson(req, resetRequest);
     const origin = publicOrigin(req);
     // The work for a real account (a token, a mail) happens after the answer, so its timing gives nothing away.
-    void mailResetLink(db, email.toLowerCase(), origin).catch((e: unknown) => console.error(`[${requestId}] reset link not sent`, e));
+    void mailResetLink(db, email.toLowerCase(), origin).catch((e: unknown) => logError(`[${requestId}] reset link not sent`, e));
     return json(RESET_REQUESTED, 202);
   }),
 );
