@@ -1,4 +1,5 @@
 import { NextResponse, type NextRequest } from "next/server";
+import { getDb } from "@/db";
 import { readSession } from "@/lib/auth/session";
 import { baseSecurityHeaders, newNonce, pageCsp } from "@/lib/api/security-headers";
 
@@ -11,14 +12,15 @@ const isConsole = (path: string) => (path === "/console" || path.startsWith("/co
  *
  * Console pages need a session: a visitor without one is redirected here, on the server, to
  * /signin?callbackUrl=<the page asked for> (path and query: an invitation link survives the detour),
- * so a signed-out console page never renders. The check reads the session cookie by the same rules
- * as every console route (lib/auth/session.ts), which check it again with the role.
+ * so a signed-out console page never renders. The check is the one every console route makes
+ * (lib/auth/session.ts): the cookie, and the user's session epoch in the database, so a session ended
+ * by a password reset or a removal goes to sign-in with its way back; the routes check the role too.
  * The dev mailbox must open before anyone can sign in.
  */
 export default async function proxy(req: NextRequest): Promise<NextResponse> {
   const path = req.nextUrl.pathname;
   let res: NextResponse;
-  if (isConsole(path) && !(await readSession(req))) {
+  if (isConsole(path) && !(await readSession(req, await getDb()))) {
     const to = new URL("/signin", req.nextUrl);
     to.searchParams.set("callbackUrl", path + req.nextUrl.search);
     res = NextResponse.redirect(to);

@@ -14,9 +14,8 @@ export interface Session extends SessionUser {
 /**
  * The signed-in user of a request: a valid, unexpired, not idle session token (session-token.ts)
  * whose epoch is still the user's — a password reset or a removal raises it, ending older sessions.
- * With `db` (every console route and page) that costs one primary-key lookup and a user who no
- * longer exists has no session; without it (proxy.ts, which must not open the database) only the
- * token is checked, and the page's data routes check the rest.
+ * With `db` (every console route and page, and proxy.ts) that costs one primary-key lookup and a user
+ * who no longer exists has no session; without it only the token is checked.
  */
 export async function readSession(req: Request, db?: Db): Promise<Session | null> {
   const token = await readSessionToken(req);
