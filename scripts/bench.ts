@@ -13,6 +13,7 @@ import { heavyRequests, runPoolBench } from "@/bench/compute";
 import { runJobsBench } from "@/bench/jobs";
 import { runSimBench } from "@/bench/sim";
 import { runBillingBench } from "@/bench/billing";
+import { runSecurityBench } from "@/bench/security";
 
 /**
  * HTTP benchmark on a production build over loopback: POST /api/v1/distance (auth, rate limit,
@@ -22,12 +23,17 @@ import { runBillingBench } from "@/bench/billing";
  * then the Monte Carlo engine in process (bench/sim.ts; PARITAS_BENCH_ONLY=sim runs only that),
  * then the worker pool's throughput with 1 and 2 threads (bench/compute.ts; PARITAS_BENCH_ONLY=compute runs only that),
  * then simulation jobs through the runner with 1 and 2 threads and a simulated claim's decision time (bench/jobs.ts; PARITAS_BENCH_ONLY=jobs),
- * then metering with quotas and the usage reporter's throughput (bench/billing.ts; PARITAS_BENCH_ONLY=billing);
+ * then metering with quotas and the usage reporter's throughput (bench/billing.ts; PARITAS_BENCH_ONLY=billing),
+ * then the session, redaction and page-policy costs (bench/security.ts; PARITAS_BENCH_ONLY=security);
  * over HTTP, last, a cheap call's latency alone and while every endpoint's heaviest allowed request runs.
  */
 const seconds = Number(process.env.PARITAS_BENCH_SECONDS ?? 10);
 
 const only = process.env.PARITAS_BENCH_ONLY;
+if (only === "security") {
+  await runSecurityBench();
+  process.exit(0);
+}
 if (only !== "compute" && only !== "sim" && only !== "jobs" && only !== "billing") {
   runCodecBench();
   runCrcBench();
@@ -45,6 +51,7 @@ if (only === "compute") process.exit(0);
 await runJobsBench();
 if (only === "jobs") process.exit(0);
 await runBillingBench();
+await runSecurityBench();
 
 async function freePort(): Promise<number> {
   return new Promise((resolve) => {
