@@ -4,6 +4,7 @@ import { MutationCache, QueryCache, QueryClient, QueryClientProvider } from "@ta
 import { useState, type ReactNode } from "react";
 import { signInUrl } from "@/lib/console-client/fetcher";
 import { isProblem } from "@/lib/console-client/problem";
+import { ReauthProvider } from "./reauth-dialog";
 
 /** A session that ended while the console was open: go to sign-in and come back here afterwards. */
 function onSessionLost(err: unknown) {
@@ -28,5 +29,9 @@ export function ConsoleProviders({ children }: { children: ReactNode }) {
         },
       }),
   );
-  return <QueryClientProvider client={client}>{children}</QueryClientProvider>;
+  return (
+    <QueryClientProvider client={client}>
+      <ReauthProvider>{children}</ReauthProvider>
+    </QueryClientProvider>
+  );
 }

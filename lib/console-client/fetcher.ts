@@ -1,4 +1,4 @@
-import { isProblemBody, ProblemError } from "./problem";
+import { isProblem, isProblemBody, ProblemError } from "./problem";
 
 type Method = "GET" | "POST" | "PATCH" | "DELETE";
 
@@ -8,12 +8,36 @@ export interface FetchOptions {
   signal?: AbortSignal;
 }
 
+/** Asks the person to confirm their password: true once confirmed, false when they decline. */
+export type ReauthHandler = (problem: ProblemError) => Promise<boolean>;
+
+let reauthHandler: ReauthHandler | null = null;
+
+/** The console shell registers the one dialog that answers `reauth-required`; the returned function unregisters it. */
+export function setReauthHandler(handler: ReauthHandler): () => void {
+  reauthHandler = handler;
+  return () => {
+    if (reauthHandler === handler) reauthHandler = null;
+  };
+}
+
 /**
  * A small typed fetcher over the console's JSON routes. Same-origin only (the browser sends
  * Origin / Sec-Fetch-Site, which the routes check on mutations). Any non-2xx answer is thrown
  * as a ProblemError: the problem+json body when there is one, otherwise a problem built from the status.
+ * A `reauth-required` refusal goes to the registered handler first; once the password is
+ * confirmed the request is sent once more (the refusal changed nothing), else the refusal is thrown.
  */
 export async function consoleFetch<T>(path: string, opts: FetchOptions = {}): Promise<T> {
+  try {
+    return await send<T>(path, opts);
+  } catch (err) {
+    if (!isProblem(err, 403, "reauth-required") || !reauthHandler || !(await reauthHandler(err))) throw err;
+    return send<T>(path, opts);
+  }
+}
+
+async function send<T>(path: string, opts: FetchOptions): Promise<T> {
   const method = opts.method ?? "GET";
   const res = await fetch(path, {
     method,

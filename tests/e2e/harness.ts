@@ -190,8 +190,8 @@ async function stopServer(child: ChildProcess): Promise<void> {
   }
 }
 
-/** Build if needed, seed a fresh database, start SMTP + server + Chromium. */
-export async function startE2E(): Promise<E2E> {
+/** Build if needed, seed a fresh database, start SMTP + server + Chromium; `env` adds to the server's environment (a short confirmation window, say). */
+export async function startE2E(opts: { env?: Record<string, string> } = {}): Promise<E2E> {
   const build = ensureBuild();
   const tmp = mkdtempSync(join(tmpdir(), "paritas-e2e-"));
   const dbFile = join(tmp, "paritas.db");
@@ -232,6 +232,7 @@ export async function startE2E(): Promise<E2E> {
     PARITAS_BILLING_PORT: String(billing.port),
     PARITAS_BILLING_PROTOCOL: "http",
     PARITAS_BILLING_WEBHOOK_SECRET: webhookSecret,
+    ...opts.env,
   };
   const child = spawn(join(ROOT, "node_modules", ".bin", "next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
     cwd: ROOT,

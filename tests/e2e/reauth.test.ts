@@ -1,0 +1,108 @@
+/**
+ * Confirming the password before a sensitive action, in a real browser: the server runs with a
+ * confirmation window of a few seconds, so a session signed in a moment ago is already stale.
+ */
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
+import { capture, DESKTOP, layoutProblems, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+
+const OWNER = DEMO_USERS[0]!;
+const ORG = DEMO_ORG.slug;
+const WINDOW_SECONDS = 4;
+
+let e2e: E2E;
+
+beforeAll(async () => {
+  e2e = await startE2E({ env: { PARITAS_REAUTH_WINDOW_SECONDS: String(WINDOW_SECONDS) } });
+}, 15 * 60_000);
+
+afterAll(async () => {
+  await e2e?.stop();
+}, 30_000);
+
+async function inSession(fn: (s: Session) => Promise<void>, opts?: Parameters<E2E["session"]>[0]): Promise<void> {
+  const s = await e2e.session(opts);
+  try {
+    await fn(s);
+  } catch (err) {
+    const shot = await screenshot(s.page, `failure-reauth-${opts?.viewport?.width ?? "default"}.tmp`).catch(() => "(no screenshot)");
+    await s.context.close().catch(() => undefined);
+    throw new Error(`${(err as Error).message}\n--- page: ${s.page.url()} (${shot})\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`, { cause: err });
+  }
+  await s.close();
+}
+
+/** Signed in as the owner on the keys page, with the sign-in's confirmation already past the window. */
+async function staleOnKeysPage(s: Session) {
+  const { page } = s;
+  await signInWithPassword(e2e, page, OWNER.email, DEMO_PASSWORD);
+  await page.goto(`${e2e.baseUrl}/console/${ORG}/keys`);
+  await page.getByRole("heading", { name: "API keys", level: 1 }).waitFor();
+  await settle(page);
+  await page.waitForTimeout((WINDOW_SECONDS + 1) * 1000);
+}
+
+async function askForLiveKey(s: Session, name: string) {
+  await s.page.getByRole("button", { name: "Create a key" }).first().click();
+  const create = s.page.getByRole("dialog", { name: "Create a key" });
+  await create.getByLabel("Name").fill(name);
+  await create.getByRole("radio").and(create.locator('[value="live"]')).check();
+  await create.getByRole("button", { name: "Create key" }).click();
+  return create;
+}
+
+describe("re-confirming the password in the console", { timeout: 90_000 }, () => {
+  for (const [label, viewport] of [
+    ["desktop", DESKTOP],
+    ["phone", PHONE],
+  ] as const) {
+    test(`a stale session creating a live key is asked for the password, then the key is made and shown once (${label})`, async () => {
+      await inSession(
+        async (s) => {
+          const { page } = s;
+          await staleOnKeysPage(s);
+          await askForLiveKey(s, `e2e live key ${label}`);
+
+          const ask = page.getByRole("dialog", { name: "Your password, once more" });
+          const password = ask.getByLabel("Password");
+          await password.waitFor();
+          // The dialog starts on the password field, so the keyboard alone gets through it.
+          expect(await password.evaluate((el) => el === document.activeElement)).toBe(true);
+          expect(await layoutProblems(page)).toEqual([]);
+          await capture(page, `reauth-dialog-${viewport.width}`);
+
+          await page.keyboard.type("not the demo password");
+          await page.keyboard.press("Enter");
+          await ask.getByRole("alert").filter({ hasText: "not this account's password" }).waitFor();
+          expect(await password.getAttribute("aria-invalid")).toBe("true");
+          await capture(page, `reauth-dialog-wrong-${viewport.width}`);
+
+          await password.fill(DEMO_PASSWORD);
+          await page.keyboard.press("Enter");
+          const shown = page.getByRole("dialog", { name: "Your new key" });
+          const field = shown.getByLabel("The new key");
+          await field.waitFor();
+          expect(await field.inputValue()).toMatch(/^live\.prt1\.[0-9A-Za-z]{36}$/);
+          await ask.waitFor({ state: "detached" });
+        },
+        { viewport },
+      );
+    });
+  }
+
+  test("cancelling the password leaves the action refused and nothing made", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      await staleOnKeysPage(s);
+      const create = await askForLiveKey(s, "e2e never made");
+      const ask = page.getByRole("dialog", { name: "Your password, once more" });
+      await ask.getByLabel("Password").waitFor();
+      await page.keyboard.press("Escape");
+      await ask.waitFor({ state: "detached" });
+      await create.getByText("Confirm your password first").waitFor();
+      await create.getByRole("button", { name: "Cancel" }).click();
+      await settle(page);
+      expect(await page.getByText("e2e never made").count()).toBe(0);
+    });
+  });
+});
