@@ -13,7 +13,7 @@ export const problemTypes = {
   "forbidden": { status: 403, title: "The key may not do this", help: "The key lacks the scope this operation needs. Create a key with that scope." },
   "role-refused": { status: 403, title: "Your role does not allow this", help: "Roles are owner, developer and billing. An owner of the organisation can change your role." },
   "cross-origin": { status: 403, title: "Cross-origin request refused", help: "Console changes are accepted only from the console's own origin (the `Origin` header, or `Sec-Fetch-Site: same-origin`)." },
-  "reauth-required": { status: 403, title: "Confirm your password first", help: "Creating a live key, transferring ownership and removing another member need a password confirmed recently in this session. Confirm it (the console asks for it) and repeat the action." },
+  "reauth-required": { status: 403, title: "Confirm your password first", help: "Creating or rotating a live key, transferring ownership and removing another member need a password confirmed recently in this session, or a fresh sign-in. Confirm it (the console asks for it) and repeat the action." },
   "invitation-mismatch": { status: 403, title: "The invitation is for another e-mail address", help: "Sign in with the address the invitation was sent to, or ask an owner to invite this one." },
   "not-found": { status: 404, title: "No such resource", help: "The path or the resource does not exist, or it belongs to another organisation." },
   "method-not-allowed": { status: 405, title: "Method not allowed on this path", help: "The `Allow` response header lists the methods this path accepts." },

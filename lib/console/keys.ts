@@ -103,7 +103,7 @@ export async function listOrgKeys(db: Db, org: Org, caller: Caller): Promise<Key
 }
 
 /** A key the caller may act on; another org's key, or for a developer another member's, is not there (404). */
-async function visibleKey(db: Db, org: Org, caller: Caller, id: number): Promise<KeyWithCreator> {
+export async function visibleKey(db: Db, org: Org, caller: Caller, id: number): Promise<KeyWithCreator> {
   const k = await findKeyWithCreator(db, org.id, id);
   const mine = visibleTo(caller);
   if (!k || (mine !== undefined && k.created_by_user_id !== mine)) throw new ApiError("not-found", `No key ${id} in ${org.slug} that you can manage.`);

@@ -1,6 +1,8 @@
 import { decode } from "next-auth/jwt";
 import { beforeEach, describe, expect, it, vi } from "vitest";
 import { setPassword } from "@/db/queries/auth";
+import { createKey } from "@/lib/api/key-service";
+import { allScopes } from "@/lib/api/scopes";
 import { resetAuthLimits } from "@/lib/auth/brute-force";
 import { hashPassword } from "@/lib/auth/passwords";
 import { authSecret, REAUTH_WINDOW_SECONDS, sessionCookie } from "@/lib/auth/session-token";
@@ -14,9 +16,12 @@ const PASSWORD = "correct horse battery";
 const STALE = REAUTH_WINDOW_SECONDS + 1;
 
 let fx: ConsoleFixture;
+/** A live key of the owner's (the fixture's own keys are test keys). */
+let liveKeyId: number;
 beforeEach(async () => {
   resetAuthLimits();
   fx = await makeConsoleOrg();
+  liveKeyId = (await createKey(fx.db, { orgId: fx.org.id, name: "live key", mode: "live", scopes: allScopes, createdByUserId: fx.owner.id }, `user:${fx.owner.id}`)).record.id;
 });
 
 const orgPath = () => `/api/console/orgs/${fx.org.slug}`;
@@ -44,8 +49,10 @@ const sensitive = {
   "creating a live key": (cookie: string) => consoleCall("POST", `${orgPath()}/keys`, { cookie, body: { name: "live one", scopes: ["compute"], mode: "live" } }),
   "transferring ownership": (cookie: string) => consoleCall("POST", `${orgPath()}/transfer`, { cookie, body: { userId: fx.spare.id } }),
   "removing another member": (cookie: string) => consoleCall("DELETE", `${orgPath()}/members/${fx.spare.id}`, { cookie }),
+  // A rotation issues a new live secret, so it asks like creating one.
+  "rotating a live key": (cookie: string) => consoleCall("POST", `${orgPath()}/keys/${liveKeyId}/rotate`, { cookie, body: { overlapMinutes: 60 } }),
 };
-const expected = { "creating a live key": 201, "transferring ownership": 200, "removing another member": 200 };
+const expected = { "creating a live key": 201, "transferring ownership": 200, "removing another member": 200, "rotating a live key": 201 };
 
 describe("sensitive actions with a confirmation older than the window", () => {
   it.each(Object.keys(sensitive) as (keyof typeof sensitive)[])("%s: 403 reauth-required and nothing changes", async (action) => {
@@ -60,11 +67,13 @@ describe("sensitive actions with a confirmation older than the window", () => {
     expect(res.status, res.text).toBe(expected[action]);
   });
 
-  it("a test key, leaving oneself and a role change do not ask", async () => {
+  it("a test key (created or rotated), leaving oneself and a role change do not ask", async () => {
     const owner = await staleCookie(fx.owner);
     const key = await consoleCall("POST", `${orgPath()}/keys`, { cookie: owner, body: { name: "test one", scopes: ["compute"], mode: "test" } });
     expect(key.status, key.text).toBe(201);
     expect(key.body.record.mode).toBe("test");
+    const rotated = await consoleCall("POST", `${orgPath()}/keys/${fx.keys.owner.record.id}/rotate`, { cookie: owner, body: { overlapMinutes: 60 } });
+    expect(rotated.status, rotated.text).toBe(201);
     const role = await consoleCall("PATCH", `${orgPath()}/members/${fx.spare.id}`, { cookie: owner, body: { role: "billing" } });
     expect(role.status, role.text).toBe(200);
     const leave = await consoleCall("DELETE", `${orgPath()}/members/${fx.coOwner.id}`, { cookie: await staleCookie(fx.coOwner) });

@@ -1,13 +1,17 @@
 import { methods } from "@/lib/api/methods";
 import { consoleRoute, idParam, json, readJson, sameOrigin, withOrgRole, withSession } from "@/lib/auth/guard";
-import { rotateInput, rotateOrgKey } from "@/lib/console/keys";
+import { requireRecentConfirmation } from "@/lib/auth/reauth";
+import { rotateInput, rotateOrgKey, visibleKey } from "@/lib/console/keys";
 
 const rotate = consoleRoute(
   sameOrigin(
     withSession(
       withOrgRole(["owner", "developer"], async (req, ctx) => {
         const overlapMinutes = await readJson(req, rotateInput);
-        return json(await rotateOrgKey(ctx.db, ctx.org, ctx.caller, idParam(ctx, "id"), overlapMinutes), 201);
+        const id = idParam(ctx, "id");
+        // Rotating a live key issues a new live secret: as sensitive as creating one (a key not there is 404 first).
+        if ((await visibleKey(ctx.db, ctx.org, ctx.caller, id)).mode === "live") await requireRecentConfirmation(req);
+        return json(await rotateOrgKey(ctx.db, ctx.org, ctx.caller, id, overlapMinutes), 201);
       }),
     ),
   ),
