@@ -1,7 +1,9 @@
 "use client";
 
+import { signIn } from "next-auth/react";
 import { useEffect, useId, useRef, useState, type FormEvent, type ReactNode } from "react";
 import { consoleFetch, setReauthHandler } from "@/lib/console-client/fetcher";
+import { useMe } from "@/lib/console-client/hooks";
 import { toProblem, type ProblemError } from "@/lib/console-client/problem";
 import { Dialog, DialogActions } from "./dialog";
 import { ProblemView } from "./problem-view";
@@ -51,10 +53,22 @@ export function ReauthProvider({ children }: { children: ReactNode }) {
 
 function ReauthDialog({ onFinish }: { onFinish: (confirmed: boolean) => void }) {
   const id = useId();
+  const me = useMe();
   const [password, setPassword] = useState("");
   const [busy, setBusy] = useState(false);
   const [problem, setProblem] = useState<ProblemError | null>(null);
+  const [link, setLink] = useState<"idle" | "sending" | "sent" | "refused">("idle");
   const fieldError = problem?.errors?.find((e) => e.pointer === "/password")?.message;
+  const email = me.data?.user.email;
+
+  // The other way to confirm: a sign-in link to the person's own address. Following it signs them in
+  // afresh, which counts as a confirmation, and brings them back to this page to repeat the action.
+  async function sendLink() {
+    if (!email) return;
+    setLink("sending");
+    const res = await signIn<"email">("email", { email, redirect: false, callbackUrl: window.location.pathname + window.location.search });
+    setLink(res?.ok && !res.error ? "sent" : "refused");
+  }
 
   async function submit(e: FormEvent) {
     e.preventDefault();
@@ -102,6 +116,22 @@ function ReauthDialog({ onFinish }: { onFinish: (confirmed: boolean) => void }) 
             <ProblemView problem={problem} compact />
           </div>
         ) : null}
+        <p className="mt-4 text-sm text-ink-2" aria-live="polite">
+          {link === "sent" ? (
+            <>
+              A sign-in link is on its way to <strong className="text-ink">{email}</strong>. Following it signs you in again, which counts as confirming; then repeat the action.
+            </>
+          ) : link === "refused" ? (
+            "No link was sent: too many were asked for lately. Wait a few minutes, or use your password."
+          ) : (
+            <>
+              No password, or rather use your mail?{" "}
+              <button type="button" className="font-medium text-accent underline underline-offset-2 disabled:opacity-60" onClick={() => void sendLink()} disabled={!email || link === "sending"}>
+                {link === "sending" ? "Sending…" : "E-mail me a sign-in link"}
+              </button>
+            </>
+          )}
+        </p>
         <DialogActions>
           <button type="button" className={buttonSecondary} onClick={() => onFinish(false)}>
             Cancel

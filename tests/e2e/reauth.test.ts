@@ -4,11 +4,13 @@
  */
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
-import { capture, DESKTOP, layoutProblems, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { waitForMessage } from "@/fakes/mailbox";
+import { capture, DESKTOP, layoutProblems, linkIn, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
 
 const OWNER = DEMO_USERS[0]!;
 const ORG = DEMO_ORG.slug;
-const WINDOW_SECONDS = 4;
+// Long enough for a sign-in by link to reach the keys page and ask again inside it, short enough to wait out.
+const WINDOW_SECONDS = 10;
 
 let e2e: E2E;
 
@@ -103,6 +105,33 @@ describe("re-confirming the password in the console", { timeout: 90_000 }, () =>
       await create.getByRole("button", { name: "Cancel" }).click();
       await settle(page);
       expect(await page.getByText("e2e never made").count()).toBe(0);
+    });
+  });
+
+  test("an e-mail link instead of the password: following it signs in again, and the action then goes through unasked", async () => {
+    await inSession(async (s) => {
+      const { page } = s;
+      await staleOnKeysPage(s);
+      const create = await askForLiveKey(s, "e2e by link");
+      const ask = page.getByRole("dialog", { name: "Your password, once more" });
+      await ask.getByLabel("Password").waitFor();
+      const since = new Date();
+      await ask.getByRole("button", { name: "E-mail me a sign-in link" }).click();
+      await ask.getByText("A sign-in link is on its way").waitFor();
+      await capture(page, "reauth-dialog-link-sent-1280");
+      const message = await waitForMessage(e2e.mailboxDir, OWNER.email, { since, timeoutMs: 10_000 });
+      // The refused request stays refused; the link brings the person back to this page to repeat it.
+      await page.keyboard.press("Escape");
+      await create.getByText("Confirm your password first").waitFor();
+      await page.goto(linkIn(message.text, `${e2e.baseUrl}/api/auth/callback/email`));
+      await page.waitForURL((u) => u.pathname === `/console/${ORG}/keys`);
+      await page.getByRole("heading", { name: "API keys", level: 1 }).waitFor();
+      await settle(page);
+      await askForLiveKey(s, "e2e by link");
+      const field = page.getByRole("dialog", { name: "Your new key" }).getByLabel("The new key");
+      await field.waitFor();
+      expect(await field.inputValue()).toMatch(/^live\.prt1\.[0-9A-Za-z]{36}$/);
+      expect(await ask.count()).toBe(0);
     });
   });
 });
