@@ -48,14 +48,18 @@ const loginKeys = (address: string, ip: string): [Policy, string][] => [
   ["login:address", address],
 ];
 
-/** True when password sign-in for this address from this IP has failed too often lately. */
-export async function loginLocked(address: string, ip: string): Promise<boolean> {
+/** Seconds until password sign-in for this address from this IP is allowed again after too many failures; 0 when it is now. */
+export async function loginLockSeconds(address: string, ip: string): Promise<number> {
+  let wait = 0;
   for (const [policy, key] of loginKeys(address, ip)) {
     const res = await limiter(policy).get(key);
-    if (res && res.consumedPoints >= POLICIES[policy].points) return true;
+    if (res && res.consumedPoints >= POLICIES[policy].points) wait = Math.max(wait, 1, Math.ceil(res.msBeforeNext / 1000));
   }
-  return false;
+  return wait;
 }
+
+/** True when password sign-in for this address from this IP has failed too often lately. */
+export const loginLocked = async (address: string, ip: string) => (await loginLockSeconds(address, ip)) > 0;
 
 export async function recordLoginFailure(address: string, ip: string): Promise<void> {
   // Past the limit the attempt is refused; the failure has been counted all the same.

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { findUserByEmail } from "@/db/queries/users";
 import { ApiError } from "@/lib/api/errors";
 import { methods } from "@/lib/api/methods";
-import { clearLoginFailures, clientIp, loginLocked, recordLoginFailure } from "@/lib/auth/brute-force";
+import { clearLoginFailures, clientIp, loginLockSeconds, recordLoginFailure } from "@/lib/auth/brute-force";
 import { consoleRoute, json, readJson, sameOrigin } from "@/lib/auth/guard";
 import { verifyPassword } from "@/lib/auth/passwords";
 import { readSession } from "@/lib/auth/session";
@@ -26,10 +26,13 @@ const confirm = consoleRoute(
     const { password } = await readJson(req, confirmInput);
     const user = await findUserByEmail(db, session.email);
     // An account that signs in by e-mail link has no password to confirm; a new sign-in is a confirmation too.
-    if (!user?.password_hash) throw wrongField("This account has no password. Sign out and sign in again with an e-mail link; a fresh sign-in counts as a confirmation.");
+    if (!user?.password_hash) throw wrongField("This account has no password. Confirm with a sign-in link to your address instead: a fresh sign-in counts as a confirmation.");
     // The same failure counters as password sign-in, so guessing here is no cheaper than guessing there.
     const ip = clientIp(req.headers);
-    if (await loginLocked(user.email, ip)) throw new ApiError("rate-limited", "Too many wrong passwords lately. Wait a while, or sign out and sign in again with an e-mail link.");
+    const wait = await loginLockSeconds(user.email, ip);
+    if (wait > 0) {
+      throw new ApiError("rate-limited", `Too many wrong passwords lately. Try again in ${wait} s, or confirm with a sign-in link to your address instead.`, { headers: { "retry-after": String(wait) } });
+    }
     if (!(await verifyPassword(password, user.password_hash))) {
       await recordLoginFailure(user.email, ip);
       throw wrongField("That is not this account's password.");
