@@ -15,6 +15,7 @@ import { consumeRate } from "@/lib/api/rate-limit";
 import { resetAuthLimits } from "@/lib/auth/brute-force";
 import { authorizeCredentials } from "@/lib/auth/options";
 import { hashPassword } from "@/lib/auth/passwords";
+import { sessionCookie } from "@/lib/auth/session-token";
 import { runReporter } from "@/lib/billing/reporter";
 import { clientFor } from "@/lib/billing/provider";
 import { databaseQueue } from "@/lib/jobs/queue";
@@ -132,7 +133,7 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     resetAuthLimits();
     const db = await getDb();
     const email = `secret-keeper-${process.pid}@example.com`;
-    await insertAuthUser(db, { email, name: "Keeper", passwordHash: await hashPassword(PASSWORD), emailVerified: nowIso() });
+    const keeper = await insertAuthUser(db, { email, name: "Keeper", passwordHash: await hashPassword(PASSWORD), emailVerified: nowIso() });
     expect(await authorizeCredentials({ email, password: WRONG_PASSWORD }, {})).toBeNull();
     expect(await authorizeCredentials({ email: `nobody-${process.pid}@example.com`, password: WRONG_PASSWORD }, {})).toBeNull();
 
@@ -143,6 +144,16 @@ describe("secrets through every path that logs", { timeout: 120_000 }, () => {
     expect(remember(await postFromConsole("/api/console/auth/reset-confirm", { token, password: "short" })).status).toBe(422);
     expect(remember(await postFromConsole("/api/console/auth/reset-confirm", { token, password: NEW_PASSWORD })).status).toBe(200);
     expect(remember(await postFromConsole("/api/console/auth/reset-confirm", { token, password: NEW_PASSWORD })).status).toBe(410);
+
+    // Confirming the password before a sensitive action (the reset ended older sessions: epoch 1), wrongly and rightly.
+    const keeperCookie = await sessionCookie({ userId: keeper.id, email }, 3600, 1, 3600);
+    secrets.set("keeper session cookie", keeperCookie.slice(keeperCookie.indexOf("=") + 1));
+    const confirm = (password: string) => consoleCall("POST", "/api/console/auth/confirm", { cookie: keeperCookie, body: { password } });
+    expect(remember(await confirm(WRONG_PASSWORD)).status).toBe(422);
+    const confirmed = remember(await confirm(NEW_PASSWORD));
+    expect(confirmed.status).toBe(200);
+    const reissued = String(confirmed.headers["set-cookie"]).match(/next-auth\.session-token=([^;]+)/)![1]!;
+    secrets.set("confirmed session cookie", reissued);
 
     const invitee = `invitee-secret-${process.pid}@example.com`;
     const cookie = fx.owner.cookie;
