@@ -1,7 +1,7 @@
 import { spawn, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
-import { dirname, join, resolve } from "node:path";
+import { basename, dirname, join, resolve } from "node:path";
 import { closeDb, databaseFile, getDb } from "@/db";
 import { createKey, revokeKey } from "@/lib/api/key-service";
 import { allScopes } from "@/lib/api/scopes";
@@ -30,7 +30,9 @@ const dataDir = dirname(resolve(databaseFile()));
 const billingSecrets = join(dataDir, ".billing-secrets.json");
 if (!existsSync(billingSecrets)) writeFileSync(billingSecrets, JSON.stringify({ apiKey: `local-${randomBytes(12).toString("hex")}`, webhook: `local-${randomBytes(24).toString("hex")}` }), { mode: 0o600 });
 const secrets = JSON.parse(readFileSync(billingSecrets, "utf8")) as { apiKey: string; webhook: string };
-const standInOptions = { stateFile: join(dataDir, "billing-stand-in.json"), secretKey: secrets.apiKey, webhookUrl: `${base}/api/webhooks/billing`, webhookSecret: secrets.webhook, closeDelayMs: 60_000 };
+// Named after the database too: two demo databases in one folder must not share the provider's state (its meter
+// events are keyed by usage row ids, which a fresh database hands out again).
+const standInOptions = { stateFile: join(dataDir, `${basename(databaseFile()).replace(/\.db$/, "")}.billing-stand-in.json`), secretKey: secrets.apiKey, webhookUrl: `${base}/api/webhooks/billing`, webhookSecret: secrets.webhook, closeDelayMs: 60_000 };
 const standIn = await startFakeBilling({ port: Number(process.env.PARITAS_BILLING_PORT ?? 12111), ...standInOptions }).catch((e: NodeJS.ErrnoException) =>
   e.code === "EADDRINUSE" ? startFakeBilling({ port: 0, ...standInOptions }) : Promise.reject(e),
 );
