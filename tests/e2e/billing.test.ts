@@ -12,7 +12,7 @@ import { openDb } from "@/db";
 import { findBillingAccount, setOrgPlan, unreportedUsage } from "@/db/queries/billing";
 import { findOrgBySlug } from "@/db/queries/orgs";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
-import { capture, DESKTOP, hydrated, layoutProblems, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { capture, DESKTOP, hydrated, layoutProblems, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session, inSession as inBrowser, type SessionOptions } from "./harness";
 
 const ORG = DEMO_ORG.slug;
 const userOf = (role: (typeof DEMO_USERS)[number]["role"]) => DEMO_USERS.find((u) => u.role === role)!;
@@ -47,19 +47,7 @@ afterAll(async () => {
   await e2e?.stop();
 }, 30_000);
 
-/** Run `fn` in a fresh browser session; on failure keep a screenshot (git-ignored *.tmp.png) and the server's last words. */
-async function inSession(fn: (s: Session) => Promise<void>, viewport: { width: number; height: number } = DESKTOP): Promise<void> {
-  const s = await e2e.session({ viewport });
-  try {
-    await fn(s);
-  } catch (err) {
-    const name = `failure-${expect.getState().currentTestName?.replace(/\W+/g, "-").slice(0, 80) ?? "billing"}.tmp`;
-    const shot = await screenshot(s.page, name).catch(() => "(no screenshot)");
-    await s.context.close().catch(() => undefined);
-    throw new Error(`${(err as Error).message}\n--- page: ${s.page.url()} (${shot})\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`, { cause: err });
-  }
-  await s.close();
-}
+const inSession = (fn: (s: Session) => Promise<void>, viewport: SessionOptions["viewport"] = DESKTOP) => inBrowser(e2e, fn, { viewport });
 
 const billingUrl = () => `${e2e.baseUrl}/console/${ORG}/billing`;
 

@@ -8,7 +8,7 @@ import { readFile } from "node:fs/promises";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
 import { CSV_HEADER } from "@/lib/console/usage";
 import { waitForMessage } from "@/fakes/mailbox";
-import { capture, DESKTOP, layoutProblems, linkIn, PHONE, screenshot, SCREENSHOT_DIR, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { capture, DESKTOP, layoutProblems, linkIn, PHONE, SCREENSHOT_DIR, settle, signInWithLink, signInWithPassword, startE2E, type E2E, type Session, inSession as inBrowser, type SessionOptions } from "./harness";
 
 const [OWNER, DEVELOPER, BILLING] = DEMO_USERS as unknown as [(typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number], (typeof DEMO_USERS)[number]];
 const ORG = DEMO_ORG.slug;
@@ -23,24 +23,7 @@ afterAll(async () => {
   await e2e?.stop();
 }, 30_000);
 
-/** Run `fn` in a fresh browser session and close it after, failing on off-host requests or page errors. */
-async function inSession(fn: (s: Session) => Promise<void>, opts?: Parameters<E2E["session"]>[0]): Promise<void> {
-  const s = await e2e.session(opts);
-  try {
-    await fn(s);
-  } catch (err) {
-    // Where the page was and what it showed: a git-ignored *.tmp.png next to the screenshots.
-    const name = `failure-${expect.getState().currentTestName?.replace(/\W+/g, "-").slice(0, 80) ?? "test"}.tmp`;
-    const shot = await screenshot(s.page, name).catch(() => "(no screenshot)");
-    const alerts = await s.page.getByRole("alert").allInnerTexts().catch(() => []);
-    await s.context.close().catch(() => undefined);
-    throw new Error(
-      `${(err as Error).message}\n--- page: ${s.page.url()} (${shot}); alerts: ${JSON.stringify(alerts)}\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`,
-      { cause: err },
-    );
-  }
-  await s.close();
-}
+const inSession = (fn: (s: Session) => Promise<void>, opts?: SessionOptions) => inBrowser(e2e, fn, opts);
 
 const callCapacity = (key: string) =>
   fetch(`${e2e.baseUrl}/api/v1/capacity`, {

@@ -21,6 +21,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import axe from "axe-core";
 import { chromium, type Browser, type BrowserContext, type Locator, type Page } from "playwright-core";
+import { expect } from "vitest";
 import { migrate, openDb } from "@/db";
 import { seedDemo } from "@/db/seed/demo";
 import { startFakeBilling, type FakeBilling } from "@/fakes/billing";
@@ -350,6 +351,28 @@ export async function startE2E(opts: { env?: Record<string, string> } = {}): Pro
     session,
     stop: cleanup,
   };
+}
+
+/**
+ * Run `fn` in a fresh browser session of `e2e` and close it after (failing on off-host requests, page errors and
+ * CSP violations). A failure says where the page was and what it showed: a git-ignored *.tmp.png next to the
+ * screenshots, the page's alerts, and the server's last output.
+ */
+export async function inSession(e2e: E2E, fn: (s: Session) => Promise<void>, opts?: SessionOptions): Promise<void> {
+  const s = await e2e.session(opts);
+  try {
+    await fn(s);
+  } catch (err) {
+    const name = `failure-${expect.getState().currentTestName?.replace(/\W+/g, "-").slice(0, 80) ?? "test"}.tmp`;
+    const shot = await screenshot(s.page, name).catch(() => "(no screenshot)");
+    const alerts = await s.page.getByRole("alert").allInnerTexts().catch(() => []);
+    await s.context.close().catch(() => undefined);
+    throw new Error(
+      `${(err as Error).message}\n--- page: ${s.page.url()} (${shot}); alerts: ${JSON.stringify(alerts)}\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`,
+      { cause: err },
+    );
+  }
+  await s.close();
 }
 
 /** Save a screenshot of the viewport under tests/e2e/screenshots/<name>.png, once fonts have loaded. */

@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { DEMO_ORG, DEMO_PASSWORD, DEMO_USERS } from "@/db/seed/demo";
 import { waitForMessage } from "@/fakes/mailbox";
-import { capture, DESKTOP, layoutProblems, linkIn, PHONE, screenshot, settle, signInWithPassword, startE2E, type E2E, type Session } from "./harness";
+import { capture, DESKTOP, layoutProblems, linkIn, PHONE, settle, signInWithPassword, startE2E, type E2E, type Session, inSession as inBrowser, type SessionOptions } from "./harness";
 
 const OWNER = DEMO_USERS[0]!;
 const ORG = DEMO_ORG.slug;
@@ -22,17 +22,7 @@ afterAll(async () => {
   await e2e?.stop();
 }, 30_000);
 
-async function inSession(fn: (s: Session) => Promise<void>, opts?: Parameters<E2E["session"]>[0]): Promise<void> {
-  const s = await e2e.session(opts);
-  try {
-    await fn(s);
-  } catch (err) {
-    const shot = await screenshot(s.page, `failure-reauth-${opts?.viewport?.width ?? "default"}.tmp`).catch(() => "(no screenshot)");
-    await s.context.close().catch(() => undefined);
-    throw new Error(`${(err as Error).message}\n--- page: ${s.page.url()} (${shot})\n--- last server output ---\n${e2e.serverOutput().slice(-2000)}`, { cause: err });
-  }
-  await s.close();
-}
+const inSession = (fn: (s: Session) => Promise<void>, opts?: SessionOptions) => inBrowser(e2e, fn, opts);
 
 /** Signed in as the owner on the keys page, with the sign-in's confirmation already past the window. */
 async function staleOnKeysPage(s: Session) {
