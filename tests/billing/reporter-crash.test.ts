@@ -16,8 +16,10 @@ import { rng } from "../helpers/rng";
  */
 const h = billingStandInForThisFile();
 
+// One process, with tsx as a loader: through the tsx command the script runs in a child of it, and a kill reached only
+// the wrapper, leaving the reporter itself running on, orphaned — the crash was no crash.
 const startReporter = (): ChildProcess =>
-  spawn("node_modules/.bin/tsx", ["scripts/billing-reporter.ts"], { env: { ...process.env, PARITAS_REPORTER_IDLE_MS: "200" }, stdio: ["ignore", "pipe", "pipe"] });
+  spawn(process.execPath, ["--import", "tsx", "scripts/billing-reporter.ts"], { env: { ...process.env, PARITAS_REPORTER_IDLE_MS: "200" }, stdio: ["ignore", "pipe", "pipe"] });
 
 describe("a reporter killed mid-batch", () => {
   it("loses and duplicates nothing: after kill -9 and a restart the provider's totals equal the ledger", async () => {
