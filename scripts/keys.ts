@@ -3,7 +3,7 @@ import { closeDb, getDb } from "@/db";
 import { findApiKeyByPrefix } from "@/db/queries/api-keys";
 import { findOrgBySlug } from "@/db/queries/orgs";
 import { createKey, keyState, listKeys, revokeKey } from "@/lib/api/key-service";
-import { isWellFormedKey, KEY_PATTERN, visiblePrefix } from "@/lib/api/keys";
+import { isWellFormedKey, KEY_PATTERN, LEGACY_PATTERN, visiblePrefix } from "@/lib/api/keys";
 import { allScopes, parseScopes } from "@/lib/api/scopes";
 
 /** Operator commands for API keys. Every change writes an audit row (actor "cli"). */
@@ -91,13 +91,10 @@ program
     console.error(`revoked ${row.prefix}… (${row.name})`);
   });
 
-/** The earlier `prt_<mode>_…` format, recognised so that its keys are reported with their format. */
-const LEGACY_SHAPE = /^prt_(live|test)_[0-9A-Za-z]{38}$/;
-
 /** One line about a candidate that never repeats it beyond its visible prefix, and whether it is a valid key. */
 function describeCandidate(candidate: string): { ok: boolean; line: string } {
   const current = KEY_PATTERN.exec(candidate);
-  const legacy = current ? null : LEGACY_SHAPE.exec(candidate);
+  const legacy = current ? null : LEGACY_PATTERN.exec(candidate);
   const shape = current ?? legacy;
   if (!shape) return { ok: false, line: "not a Paritas key (wrong shape)" };
   const ok = isWellFormedKey(candidate);

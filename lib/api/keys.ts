@@ -29,7 +29,13 @@ const VISIBLE_LEN = "live.prt1.".length + 4;
  * The format issued before version 1: `prt_<mode>_<32 base62><6 base62 of CRC-32 of the 32>`.
  * Such keys keep authenticating until they are rotated or revoked; none are issued any more.
  */
-const LEGACY_PATTERN = /^prt_(live|test)_([0-9A-Za-z]{32})([0-9A-Za-z]{6})$/;
+export const LEGACY_PATTERN = /^prt_(live|test)_([0-9A-Za-z]{32})([0-9A-Za-z]{6})$/;
+
+/**
+ * Key-shaped text anywhere, in either format and without the scan pattern's boundary guards: for cutting keys out
+ * of logs and answers (lib/api/redact.ts), where matching too much is safe and too little is not.
+ */
+export const KEY_SHAPED = /(?:live|test)\.prt1\.[0-9A-Za-z]{36}|prt_(?:live|test)_[0-9A-Za-z]{38}/g;
 
 function base62(n: number, width: number): string {
   let s = "";

@@ -1,13 +1,11 @@
 import { inspect } from "node:util";
+import { KEY_SHAPED, visiblePrefix } from "./keys";
 
 /**
- * Secrets cut out of text before it reaches a log or an answer: the one place that knows their shapes.
- * Keys keep their visible prefix (as key lists show them), so a log line still says which key was involved.
+ * Secrets cut out of text before it reaches a log or an answer; the key shapes come from lib/api/keys.ts, the
+ * others live here. Keys keep their visible prefix (as key lists show them), so a log line still says which key was involved.
  */
 
-/** Key-shaped text: the current format and the earlier `prt_` one (lib/api/keys.ts). */
-const KEY_SHAPED = /(?:live|test)\.prt1\.[0-9A-Za-z]{36}|prt_(?:live|test)_[0-9A-Za-z]{38}/g;
-const VISIBLE_LEN = "live.prt1.".length + 4;
 /** Credentials in header form, as a failing HTTP client may quote its request. */
 const BEARER = /\b(Bearer|Basic)\s+[A-Za-z0-9._~+/=-]{8,}/gi;
 /** A JWE in compact form: the session token next-auth sets (header.key.iv.ciphertext.tag, base64url). */
@@ -15,11 +13,8 @@ const COMPACT_JWE = /eyJ[\w-]+\.[\w-]*\.[\w-]+\.[\w-]+\.[\w-]+/g;
 /** This process's own configured secrets, replaced wherever they appear verbatim. */
 const CONFIGURED = ["PARITAS_AUTH_SECRET", "NEXTAUTH_SECRET", "PARITAS_BILLING_SECRET_KEY", "PARITAS_BILLING_WEBHOOK_SECRET"] as const;
 
-/** True when the text is, or contains, something shaped like one of our API keys. */
-export const containsKeyShaped = (text: string) => new RegExp(KEY_SHAPED.source).test(text);
-
 /** Key-shaped text cut to its visible prefix: `live.prt1.Ab3x…`. */
-export const redactKeys = (text: string) => text.replace(KEY_SHAPED, (key) => `${key.slice(0, VISIBLE_LEN)}…`);
+export const redactKeys = (text: string) => text.replace(KEY_SHAPED, (key) => `${visiblePrefix(key)}…`);
 
 /** Keys cut to their prefix; credentials, session tokens and the configured secrets replaced with `…`. */
 export function redactSecrets(text: string): string {
