@@ -7,7 +7,7 @@ import { parseJsonBody, readBodyText } from "@/lib/api/body";
 import { requestIdFor } from "@/lib/api/http";
 import { ApiError, fieldErrorsFromZod, problemResponse, type FieldError } from "@/lib/api/errors";
 import type { Caller } from "@/lib/console/common";
-import { readSession, renewalCookie } from "./session";
+import { readSession, renewalCookie, type SessionToken } from "./session";
 
 /**
  * Console route plumbing: small wrappers, each doing one thing, nested from the outside in:
@@ -30,6 +30,8 @@ export interface ConsoleCtx {
 }
 export interface SessionCtx extends ConsoleCtx {
   user: { id: number; email: string; name: string | null };
+  /** The session cookie as withSession decoded it: its sign-in, last confirmation and epoch. */
+  token: SessionToken;
 }
 export interface OrgCtx extends SessionCtx {
   org: Org;
@@ -97,8 +99,10 @@ export function withSession(handler: Handler<SessionCtx>): Handler<ConsoleCtx> {
   return async (req, ctx) => {
     const session = await readSession(req, ctx.db);
     if (!session) throw new ApiError("signed-out", "Sign in to use the console.");
-    const res = await handler(req, { ...ctx, user: { id: session.userId, email: session.email, name: session.name } });
-    const renewed = await renewalCookie(session.token);
+    const res = await handler(req, { ...ctx, user: { id: session.userId, email: session.email, name: session.name }, token: session.token });
+    // A handler that issued the session cookie itself (the password confirmation) set the newer one.
+    const reissued = res.headers.getSetCookie().some((c) => c.startsWith(`${session.token.cookieName}=`));
+    const renewed = reissued ? null : await renewalCookie(session.token);
     if (renewed) res.headers.append("set-cookie", renewed);
     return res;
   };

@@ -1,5 +1,5 @@
 import { ApiError } from "@/lib/api/errors";
-import { readSessionToken, reauthWindowSeconds, recentlyConfirmed } from "./session-token";
+import { reauthWindowSeconds, recentlyConfirmed, type SessionToken } from "./session-token";
 
 /** The window in words for problem details: whole minutes when it is some, else seconds. */
 function windowInWords(): string {
@@ -8,14 +8,12 @@ function windowInWords(): string {
 }
 
 /**
- * Refuses (403 reauth-required) unless the request's session confirmed its password within the
- * window. Routes call it after their role check and before changing anything, and only for the
+ * Refuses (403 reauth-required) unless the session (as withSession decoded it) confirmed its password
+ * within the window. Routes call it after their role check and before changing anything, and only for the
  * sensitive case, which may depend on the body (a live key, not a test key; another member, not oneself).
  */
-export async function requireRecentConfirmation(req: Request): Promise<void> {
-  const token = await readSessionToken(req);
-  if (!token) throw new ApiError("signed-out", "Sign in to use the console.");
-  if (!recentlyConfirmed(token)) {
+export function requireRecentConfirmation(ctx: { token: SessionToken }): void {
+  if (!recentlyConfirmed(ctx.token)) {
     throw new ApiError("reauth-required", `This needs your password entered within the last ${windowInWords()}. Confirm it at POST /api/console/auth/confirm and send the request again.`);
   }
 }

@@ -9,11 +9,11 @@ const listKeys = consoleRoute(withSession(withOrgRole(["owner", "developer"], as
 const createKey = consoleRoute(
   sameOrigin(
     withSession(
-      withOrgRole(["owner", "developer"], async (req, { db, org, caller }) => {
+      withOrgRole(["owner", "developer"], async (req, ctx) => {
         const input = await readJson(req, newKeyInput);
         // A live key spends real money; a test key does not, so only a live one asks for the password.
-        if (input.mode === "live") await requireRecentConfirmation(req);
-        return json(await createOrgKey(db, org, caller, input), 201);
+        if (input.mode === "live") requireRecentConfirmation(ctx);
+        return json(await createOrgKey(ctx.db, ctx.org, ctx.caller, input), 201);
       }),
     ),
   ),

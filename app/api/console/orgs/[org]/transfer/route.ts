@@ -6,10 +6,10 @@ import { transferInput, transferOwnership } from "@/lib/console/members";
 const transfer = consoleRoute(
   sameOrigin(
     withSession(
-      withOrgRole(["owner"], async (req, { db, org, caller }) => {
+      withOrgRole(["owner"], async (req, ctx) => {
         const { userId } = await readJson(req, transferInput);
-        await requireRecentConfirmation(req);
-        return json(await transferOwnership(db, org, caller, userId));
+        requireRecentConfirmation(ctx);
+        return json(await transferOwnership(ctx.db, ctx.org, ctx.caller, userId));
       }),
     ),
   ),

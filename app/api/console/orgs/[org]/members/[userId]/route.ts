@@ -22,7 +22,7 @@ const removeMemberRoute = consoleRoute(
         const { revokeKeys } = readQuery(req, removeQuery);
         const userId = idParam(ctx, "userId");
         // Removing someone else asks for the password; a non-owner is refused that by the service, so is not asked for it first.
-        if (userId !== ctx.caller.id && ctx.caller.role === "owner") await requireRecentConfirmation(req);
+        if (userId !== ctx.caller.id && ctx.caller.role === "owner") requireRecentConfirmation(ctx);
         return json(await removeMember(ctx.db, ctx.org, ctx.caller, userId, { revokeKeys }));
       }),
     ),

@@ -10,7 +10,7 @@ const rotate = consoleRoute(
         const overlapMinutes = await readJson(req, rotateInput);
         const id = idParam(ctx, "id");
         // Rotating a live key issues a new live secret: as sensitive as creating one (a key not there is 404 first).
-        if ((await visibleKey(ctx.db, ctx.org, ctx.caller, id)).mode === "live") await requireRecentConfirmation(req);
+        if ((await visibleKey(ctx.db, ctx.org, ctx.caller, id)).mode === "live") requireRecentConfirmation(ctx);
         return json(await rotateOrgKey(ctx.db, ctx.org, ctx.caller, id, overlapMinutes), 201);
       }),
     ),
