@@ -1,6 +1,6 @@
 import type { Db } from "@/db";
 
-// Only a type import of the database: lib/auth/session.ts, which proxy.ts loads, must not open it.
+// Only a type import of the database: lib/auth/session.ts takes the connection from its caller.
 
 /** What a console request needs of its signed-in user: one primary-key lookup. */
 export const findSessionUser = (db: Db, id: number) =>

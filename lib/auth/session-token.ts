@@ -1,8 +1,8 @@
 import { decode, encode } from "next-auth/jwt";
 
 /**
- * The session cookie itself, without the database: what proxy.ts can check on every console page
- * (lib/auth/session.ts adds the per-user epoch check the console routes make).
+ * The session cookie itself, without the database: its lifetime, idle timeout and confirmation
+ * (lib/auth/session.ts adds the per-user epoch check that proxy.ts and the console routes make).
  */
 
 /** Cookie names next-auth uses for its JWT session (the __Secure- one over HTTPS). */
@@ -15,7 +15,7 @@ export const SESSION_IDLE_SECONDS = 30 * 60;
 /** A used session's cookie is re-issued once its last issue is this old, not on every request. */
 const RENEW_AFTER_SECONDS = 60;
 /**
- * Creating a live key, transferring ownership and removing another member need the password
+ * Creating or rotating a live key, transferring ownership and removing another member need the password
  * entered this recently (or a sign-in this recent); PARITAS_REAUTH_WINDOW_SECONDS overrides it for tests.
  */
 export const REAUTH_WINDOW_SECONDS = 15 * 60;

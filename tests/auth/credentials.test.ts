@@ -130,7 +130,7 @@ describe("next-auth callbacks", () => {
     const token = await callbacks.jwt!({ token: { name: user.name }, user, account: null, trigger: "signIn" });
     expect(token).toMatchObject({ sub: String(u.id), email: u.email });
     const cookie = `next-auth.session-token=${await encode({ token, secret: authSecret() })}`;
-    const session = await readSession(new Request("http://localhost/", { headers: { cookie } }));
+    const session = await readSession(new Request("http://localhost/", { headers: { cookie } }), await getDb());
     expect(session).toMatchObject({ userId: u.id, email: u.email, token: { epoch: 0 } });
   });
 

@@ -2,6 +2,7 @@ import { createRequire } from "node:module";
 import { NextRequest } from "next/server";
 import { vi } from "vitest";
 import { GET, POST } from "@/app/api/auth/[...nextauth]/route";
+import { getDb } from "@/db";
 import { readSession } from "@/lib/auth/session";
 import { ORIGIN } from "./helpers";
 
@@ -40,5 +41,5 @@ export class NextAuthBrowser {
 
   cookie = () => [...this.jar].map(([k, v]) => `${k}=${v}`).join("; ");
 
-  session = () => readSession(new Request(ORIGIN, { headers: { cookie: this.cookie() } }));
+  session = async () => readSession(new Request(ORIGIN, { headers: { cookie: this.cookie() } }), await getDb());
 }
