@@ -43,6 +43,15 @@ async function askForLiveKey(s: Session, name: string) {
   return create;
 }
 
+/** A stale session asking for a live key: the create dialog, and the password dialog it brought up. */
+async function askedForPassword(s: Session, name: string) {
+  await staleOnKeysPage(s);
+  const create = await askForLiveKey(s, name);
+  const ask = s.page.getByRole("dialog", { name: "Your password, once more" });
+  await ask.getByLabel("Password").waitFor();
+  return { create, ask };
+}
+
 describe("re-confirming the password in the console", { timeout: 90_000 }, () => {
   for (const [label, viewport] of [
     ["desktop", DESKTOP],
@@ -52,12 +61,8 @@ describe("re-confirming the password in the console", { timeout: 90_000 }, () =>
       await inSession(
         async (s) => {
           const { page } = s;
-          await staleOnKeysPage(s);
-          await askForLiveKey(s, `e2e live key ${label}`);
-
-          const ask = page.getByRole("dialog", { name: "Your password, once more" });
+          const { ask } = await askedForPassword(s, `e2e live key ${label}`);
           const password = ask.getByLabel("Password");
-          await password.waitFor();
           // The dialog starts on the password field, so the keyboard alone gets through it.
           expect(await password.evaluate((el) => el === document.activeElement)).toBe(true);
           expect(await layoutProblems(page)).toEqual([]);
@@ -85,10 +90,7 @@ describe("re-confirming the password in the console", { timeout: 90_000 }, () =>
   test("cancelling the password leaves the action refused and nothing made", async () => {
     await inSession(async (s) => {
       const { page } = s;
-      await staleOnKeysPage(s);
-      const create = await askForLiveKey(s, "e2e never made");
-      const ask = page.getByRole("dialog", { name: "Your password, once more" });
-      await ask.getByLabel("Password").waitFor();
+      const { create, ask } = await askedForPassword(s, "e2e never made");
       await page.keyboard.press("Escape");
       await ask.waitFor({ state: "detached" });
       await create.getByText("Confirm your password first").waitFor();
@@ -101,10 +103,7 @@ describe("re-confirming the password in the console", { timeout: 90_000 }, () =>
   test("an e-mail link instead of the password: following it signs in again, and the action then goes through unasked", async () => {
     await inSession(async (s) => {
       const { page } = s;
-      await staleOnKeysPage(s);
-      const create = await askForLiveKey(s, "e2e by link");
-      const ask = page.getByRole("dialog", { name: "Your password, once more" });
-      await ask.getByLabel("Password").waitFor();
+      const { create, ask } = await askedForPassword(s, "e2e by link");
       const since = new Date();
       await ask.getByRole("button", { name: "E-mail me a sign-in link" }).click();
       await ask.getByText("A sign-in link is on its way").waitFor();
